@@ -1,0 +1,84 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io/fs"
+
+	"assay/corpus"
+	"assay/sparsemat"
+	"assay/textproc"
+)
+
+// docInfo is what the report needs of a document once its text is gone.
+type docInfo struct {
+	ID       string
+	Title    string
+	Size     int64
+	Repaired int
+}
+
+// analysis is a corpus read and turned into a count matrix.
+type analysis struct {
+	docs        []docInfo // every document read, in walk order
+	skips       []corpus.Skip
+	counts      *sparsemat.Counts
+	display     textproc.DisplayForms
+	fingerprint string
+	minDF       int // the min-df used (derived when not given)
+}
+
+// errNoDocuments is returned when a folder holds nothing readable.
+var errNoDocuments = errors.New("no readable documents")
+
+// analyze walks fsys, analyses each document as it is read (the text is
+// dropped straight after), and builds the pruned count matrix.
+func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, error) {
+	an := &analysis{}
+	az := textproc.NewAnalyzer(textproc.Options{MinLength: opts.MinLen, KeepNumbers: opts.Numbers, NoStem: opts.NoStem})
+	var b sparsemat.Builder
+	var fp corpus.Fingerprint
+	counts := make(map[string]int)
+	skips, err := corpus.Walk(fsys, corpus.Options{MaxBytes: opts.MaxBytes}, func(d corpus.Document) error {
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		clear(counts)
+		az.Analyze(d.Text, func(stem, surface string) {
+			counts[stem]++
+			an.display.Add(stem, surface)
+		})
+		b.AddRow(counts)
+		fp.Add(&d)
+		an.docs = append(an.docs, docInfo{ID: d.ID, Title: d.Title, Size: d.Size, Repaired: d.Repaired})
+		return nil
+	})
+	if err != nil {
+		return nil, fmt.Errorf("read %s: %w", opts.Source, err)
+	}
+	an.skips = skips
+	an.fingerprint = fp.String()
+	if len(an.docs) == 0 {
+		return nil, fmt.Errorf("%s: %w (%d files skipped)", opts.Source, errNoDocuments, len(skips))
+	}
+	an.minDF = opts.MinDF
+	if an.minDF < 0 {
+		an.minDF = 1
+		if len(an.docs) >= minDFThreshold {
+			an.minDF = 2
+		}
+	}
+	c, err := b.Build(sparsemat.Pruning{MinDF: an.minDF, MaxDFShare: opts.MaxDF})
+	if errors.Is(err, sparsemat.ErrNoTerms) {
+		return nil, fmt.Errorf("%s: no terms left after analysis and pruning (%d documents, min-df %d, max-df %g); try --min-df 1 or a larger --max-df", opts.Source, len(an.docs), an.minDF, opts.MaxDF)
+	}
+	if err != nil {
+		return nil, fmt.Errorf("build matrix: %w", err)
+	}
+	an.counts = c
+	for _, i := range c.EmptyRows {
+		an.skips = append(an.skips, corpus.Skip{Path: an.docs[i].ID, Reason: "no terms left after analysis and pruning"})
+	}
+	return an, nil
+}

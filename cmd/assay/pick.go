@@ -1,0 +1,222 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io/fs"
+	"os"
+	"strconv"
+	"strings"
+
+	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
+
+	"assay/corpus"
+	"assay/sparsemat"
+)
+
+// Defaults of the pick options.
+const (
+	defaultDocs     = 10
+	defaultTerms    = 20
+	defaultSeed     = 1
+	defaultMaxDF    = 0.5
+	minDFThreshold  = 20 // corpora of at least this many documents get min-df 2
+	defaultFormat   = "text"
+	defaultMethod   = "norm"
+	cautionSampling = "Sampling supports review; it does not replace the review that law, policy or a licensed professional requires."
+)
+
+// pickOptions are the parsed and validated options of pick and demo.
+type pickOptions struct {
+	Source   string // folder as given, or the demo label
+	Format   string
+	Method   string
+	Docs     int
+	Terms    int
+	Rank     int // 0: derived
+	Seed     uint64
+	MinDF    int // -1: derived from the corpus size
+	MaxDF    float64
+	Weight   sparsemat.Weighting
+	MaxBytes int64
+	MinLen   int
+	Numbers  bool
+	NoStem   bool
+	Power    int
+}
+
+// pickFlags holds the raw flag values before validation.
+type pickFlags struct {
+	format, method, tf, idf, norm string
+	docs, terms, rank, minDF      int
+	minLen, power                 int
+	seed                          uint64
+	maxDF                         float64
+	maxBytes                      int64
+	numbers, noStem               bool
+}
+
+func (f *pickFlags) register(fl *pflag.FlagSet) {
+	fl.StringVar(&f.format, "format", defaultFormat, "output format: text or json")
+	fl.StringVar(&f.method, "method", defaultMethod, "selection method: norm (squared-norm sampling)")
+	fl.IntVar(&f.docs, "docs", defaultDocs, "number r of document draws (exemplars)")
+	fl.IntVar(&f.terms, "terms", defaultTerms, "number c of term draws (key terms)")
+	fl.IntVar(&f.rank, "rank", 0, "target rank k of the reference SVD (default min(docs, terms), lowered to the matrix's rank)")
+	fl.Uint64Var(&f.seed, "seed", defaultSeed, "random seed; the same seed gives the same picks")
+	fl.IntVar(&f.minDF, "min-df", -1, "keep terms found in at least this many documents (default 2 with 20 or more documents, else 1)")
+	fl.Float64Var(&f.maxDF, "max-df", defaultMaxDF, "keep terms found in at most this share of the documents, in (0, 1]")
+	fl.StringVar(&f.tf, "tf", string(sparsemat.TFLog), "term-frequency weight: log (1+ln tf), raw, binary")
+	fl.StringVar(&f.idf, "idf", string(sparsemat.IDFSmooth), "inverse document frequency: smooth (ln((1+m)/(1+df))+1), plain (ln(m/df)+1), none")
+	fl.StringVar(&f.norm, "norm", string(sparsemat.NormL2), "row normalisation: l2, l1, none")
+	fl.Int64Var(&f.maxBytes, "max-bytes", corpus.DefaultMaxBytes, "skip files larger than this many bytes")
+	fl.IntVar(&f.minLen, "min-length", 2, "shortest token kept, in characters")
+	fl.BoolVar(&f.numbers, "keep-numbers", false, "keep tokens made only of digits")
+	fl.BoolVar(&f.noStem, "no-stem", false, "do not stem: every word is its own term")
+	fl.IntVar(&f.power, "power-iters", sparsemat.DefaultPowerIters, "power iterations of the randomized SVD")
+}
+
+// options validates the flags; any error is a usage error.
+func (f *pickFlags) options(source string) (pickOptions, error) {
+	o := pickOptions{
+		Source: source, Format: f.format, Method: f.method,
+		Docs: f.docs, Terms: f.terms, Rank: f.rank, Seed: f.seed,
+		MinDF: f.minDF, MaxDF: f.maxDF, MaxBytes: f.maxBytes,
+		MinLen: f.minLen, Numbers: f.numbers, NoStem: f.noStem, Power: f.power,
+		Weight: sparsemat.Weighting{TF: sparsemat.TF(f.tf), IDF: sparsemat.IDF(f.idf), Norm: sparsemat.Norm(f.norm)},
+	}
+	switch {
+	case o.Format != "text" && o.Format != "json":
+		return o, usagef("unknown --format %q (allowed: text, json)", o.Format)
+	case o.Method != "norm":
+		return o, usagef("unknown --method %q (allowed: norm)", o.Method)
+	case o.Docs < 1:
+		return o, usagef("--docs must be at least 1 (got %d)", o.Docs)
+	case o.Terms < 1:
+		return o, usagef("--terms must be at least 1 (got %d)", o.Terms)
+	case o.Rank < 0:
+		return o, usagef("--rank must be at least 1, or 0 for the default (got %d)", o.Rank)
+	case o.MinDF < -1:
+		return o, usagef("--min-df must be at least 0 (got %d)", o.MinDF)
+	case !(o.MaxDF > 0 && o.MaxDF <= 1):
+		return o, usagef("--max-df must lie in (0, 1] (got %g)", o.MaxDF)
+	case o.MaxBytes < 1:
+		return o, usagef("--max-bytes must be at least 1 (got %d)", o.MaxBytes)
+	case o.MinLen < 1:
+		return o, usagef("--min-length must be at least 1 (got %d)", o.MinLen)
+	case o.Power < 0:
+		return o, usagef("--power-iters must be at least 0 (got %d)", o.Power)
+	}
+	if err := o.Weight.Validate(); err != nil {
+		return o, usageError{err}
+	}
+	return o, nil
+}
+
+const pickExamples = `  assay pick ./reports
+  assay pick ./reports --docs 12 --terms 25
+  assay pick ./reports --format json > picks.json
+  assay pick ./inbox --seed 7 --min-df 3 --max-df 0.3`
+
+func newPickCmd(app *App) *cobra.Command {
+	var f pickFlags
+	cmd := &cobra.Command{
+		Use:   "pick FOLDER",
+		Short: "Pick exemplar documents and key terms of a folder",
+		Long: `pick reads every .txt, .text, .md and .rst file below FOLDER (hidden files and
+folders are skipped), builds a stemmed TF-IDF matrix, picks documents and
+terms by squared-norm sampling, and prints the picks with the share of the
+corpus they reconstruct, beside the best rank-k approximation.
+
+Files that cannot be used (binary, empty, unreadable, too large, another
+type) are skipped and listed with the reason. The output records the method,
+seed, options and a fingerprint of the input, so the run can be repeated.
+
+` + cautionSampling,
+		Example: pickExamples,
+		Args: func(_ *cobra.Command, args []string) error {
+			if len(args) != 1 {
+				return usagef("pick takes one folder (got %d arguments)", len(args))
+			}
+			return nil
+		},
+		RunE: func(cmd *cobra.Command, args []string) error {
+			opts, err := f.options(args[0])
+			if err != nil {
+				return err
+			}
+			fsys, err := openFolder(args[0])
+			if err != nil {
+				return err
+			}
+			return runPick(cmd.Context(), app, fsys, opts)
+		},
+	}
+	f.register(cmd.Flags())
+	return cmd
+}
+
+// openFolder opens dir as a file system that cannot be escaped through
+// symbolic links or "..".
+func openFolder(dir string) (fs.FS, error) {
+	info, err := os.Stat(dir)
+	if err != nil {
+		return nil, fmt.Errorf("open folder: %w", err)
+	}
+	if !info.IsDir() {
+		return nil, fmt.Errorf("open folder: %s is not a folder", dir)
+	}
+	root, err := os.OpenRoot(dir)
+	if err != nil {
+		return nil, fmt.Errorf("open folder: %w", err)
+	}
+	return root.FS(), nil
+}
+
+// runPick reads the corpus, picks and writes the report.
+func runPick(ctx context.Context, app *App, fsys fs.FS, opts pickOptions) error {
+	an, err := analyze(ctx, fsys, opts)
+	if err != nil {
+		return err
+	}
+	rep, err := pick(an, opts, app.Version)
+	if err != nil {
+		return err
+	}
+	for _, w := range rep.Warnings {
+		fmt.Fprintf(app.Err, "assay: warning: %s\n", w)
+	}
+	switch opts.Format {
+	case "json":
+		return writeJSON(app.Out, rep)
+	default:
+		return writeText(app.Out, rep)
+	}
+}
+
+// command gives the command line that repeats a run.
+func (o pickOptions) command(demo bool) string {
+	var b strings.Builder
+	if demo {
+		b.WriteString("assay demo")
+	} else {
+		b.WriteString("assay pick " + quoteArg(o.Source))
+	}
+	fmt.Fprintf(&b, " --method %s --docs %d --terms %d --rank %d --seed %d", o.Method, o.Docs, o.Terms, o.Rank, o.Seed)
+	fmt.Fprintf(&b, " --min-df %d --max-df %s --tf %s --idf %s --norm %s", o.MinDF, strconv.FormatFloat(o.MaxDF, 'g', -1, 64), o.Weight.TF, o.Weight.IDF, o.Weight.Norm)
+	fmt.Fprintf(&b, " --max-bytes %d --min-length %d --power-iters %d", o.MaxBytes, o.MinLen, o.Power)
+	if o.Numbers {
+		b.WriteString(" --keep-numbers")
+	}
+	if o.NoStem {
+		b.WriteString(" --no-stem")
+	}
+	return b.String()
+}
+
+func quoteArg(s string) string {
+	if s != "" && !strings.ContainsAny(s, " \t\n'\"\\$`*?[]{}()<>|&;#~") {
+		return s
+	}
+	return "'" + strings.ReplaceAll(s, "'", `'\''`) + "'"
+}

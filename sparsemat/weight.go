@@ -1,0 +1,130 @@
+package sparsemat
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/james-bowman/sparse"
+)
+
+// TF is the term-frequency part of a weighting.
+type TF string
+
+// IDF is the inverse-document-frequency part of a weighting.
+type IDF string
+
+// Norm is the row normalisation of a weighting.
+type Norm string
+
+// The weighting choices. Names follow the usual retrieval vocabulary.
+const (
+	TFLog    TF = "log"    // 1 + ln(count): sublinear tf (default)
+	TFRaw    TF = "raw"    // count
+	TFBinary TF = "binary" // 1 when the term occurs
+
+	IDFSmooth IDF = "smooth" // ln((1+m)/(1+df)) + 1 (default)
+	IDFPlain  IDF = "plain"  // ln(m/df) + 1
+	IDFNone   IDF = "none"   // 1
+
+	NormL2   Norm = "l2"   // rows scaled to unit Euclidean norm (default)
+	NormL1   Norm = "l1"   // rows scaled to unit sum of absolute values
+	NormNone Norm = "none" // rows left as weighted
+)
+
+// Weighting chooses how counts become weights.
+type Weighting struct {
+	TF   TF
+	IDF  IDF
+	Norm Norm
+}
+
+// DefaultWeighting is sublinear tf, smooth idf and L2 rows.
+var DefaultWeighting = Weighting{TF: TFLog, IDF: IDFSmooth, Norm: NormL2}
+
+// Validate reports an unknown choice.
+func (w Weighting) Validate() error {
+	switch w.TF {
+	case TFLog, TFRaw, TFBinary:
+	default:
+		return fmt.Errorf("unknown tf %q (allowed: log, raw, binary)", w.TF)
+	}
+	switch w.IDF {
+	case IDFSmooth, IDFPlain, IDFNone:
+	default:
+		return fmt.Errorf("unknown idf %q (allowed: smooth, plain, none)", w.IDF)
+	}
+	switch w.Norm {
+	case NormL2, NormL1, NormNone:
+	default:
+		return fmt.Errorf("unknown norm %q (allowed: l2, l1, none)", w.Norm)
+	}
+	return nil
+}
+
+// String gives the weighting as "tf=log idf=smooth norm=l2".
+func (w Weighting) String() string {
+	return fmt.Sprintf("tf=%s idf=%s norm=%s", w.TF, w.IDF, w.Norm)
+}
+
+// IDFValues returns the idf of every column of c under w.
+func IDFValues(c *Counts, w IDF) []float64 {
+	m := float64(c.Documents)
+	idf := make([]float64, len(c.DF))
+	for j, df := range c.DF {
+		d := float64(df)
+		switch w {
+		case IDFSmooth:
+			idf[j] = math.Log((1+m)/(1+d)) + 1
+		case IDFPlain:
+			idf[j] = math.Log(m/d) + 1
+		default:
+			idf[j] = 1
+		}
+	}
+	return idf
+}
+
+// Weight returns the weighted matrix of c under w, a new CSR with the same
+// pattern. It panics if w is not valid; call [Weighting.Validate] first.
+// Rows whose weights are all zero stay zero under any normalisation.
+func Weight(c *Counts, w Weighting) *sparse.CSR {
+	if err := w.Validate(); err != nil {
+		panic("sparsemat: " + err.Error())
+	}
+	raw := c.Matrix.RawMatrix()
+	idf := IDFValues(c, w.IDF)
+	data := make([]float64, len(raw.Data))
+	for i := 0; i < raw.I; i++ {
+		lo, hi := raw.Indptr[i], raw.Indptr[i+1]
+		for k := lo; k < hi; k++ {
+			tf := raw.Data[k]
+			switch w.TF {
+			case TFLog:
+				tf = 1 + math.Log(tf)
+			case TFBinary:
+				tf = 1
+			}
+			data[k] = tf * idf[raw.Ind[k]]
+		}
+		var s float64
+		switch w.Norm {
+		case NormL2:
+			for _, v := range data[lo:hi] {
+				s += v * v
+			}
+			s = math.Sqrt(s)
+		case NormL1:
+			for _, v := range data[lo:hi] {
+				s += math.Abs(v)
+			}
+		}
+		if s > 0 {
+			for k := lo; k < hi; k++ {
+				data[k] /= s
+			}
+		}
+	}
+	ia := append([]int(nil), raw.Indptr...)
+	ja := append([]int(nil), raw.Ind...)
+	return sparse.NewCSR(raw.I, raw.J, ia, ja, data)
+}

@@ -1,0 +1,56 @@
+package textproc
+
+import "sort"
+
+// DisplayForms counts the surface forms seen for each stem, to show every
+// stem as a real word. The zero value is ready to use.
+type DisplayForms struct {
+	forms map[string]map[string]int
+}
+
+// Add records one occurrence of surface as a form of stem.
+func (d *DisplayForms) Add(stem, surface string) {
+	if d.forms == nil {
+		d.forms = make(map[string]map[string]int)
+	}
+	m := d.forms[stem]
+	if m == nil {
+		m = make(map[string]int, 1)
+		d.forms[stem] = m
+	}
+	m[surface]++
+}
+
+// Form returns the most frequent surface form of stem, ties broken by the
+// smaller string; a stem never seen is returned as it is.
+func (d *DisplayForms) Form(stem string) string {
+	best, bestN := stem, 0
+	for s, n := range d.forms[stem] {
+		if n > bestN || (n == bestN && s < best) {
+			best, bestN = s, n
+		}
+	}
+	return best
+}
+
+// Forms returns every surface form of stem with its count, most frequent
+// first, ties by the smaller string.
+func (d *DisplayForms) Forms(stem string) []FormCount {
+	out := make([]FormCount, 0, len(d.forms[stem]))
+	for s, n := range d.forms[stem] {
+		out = append(out, FormCount{Form: s, Count: n})
+	}
+	sort.Slice(out, func(i, j int) bool {
+		if out[i].Count != out[j].Count {
+			return out[i].Count > out[j].Count
+		}
+		return out[i].Form < out[j].Form
+	})
+	return out
+}
+
+// FormCount is one surface form of a stem and how often it was seen.
+type FormCount struct {
+	Form  string
+	Count int
+}
