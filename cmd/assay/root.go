@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"runtime/debug"
+	"strings"
 
 	"github.com/spf13/cobra"
 )
@@ -52,7 +53,8 @@ func (app *App) Run(ctx context.Context, args []string) int {
 	}
 	fmt.Fprintf(app.Err, "assay: %v\n", err)
 	var ue usageError
-	if errors.As(err, &ue) {
+	// cobra reports an unknown subcommand as a plain error.
+	if errors.As(err, &ue) || strings.HasPrefix(err.Error(), "unknown command") {
 		fmt.Fprintln(app.Err, "Run 'assay --help' for usage.")
 		return exitUsage
 	}

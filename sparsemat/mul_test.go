@@ -1,0 +1,108 @@
+package sparsemat
+
+import (
+	"fmt"
+	"math/rand/v2"
+	"runtime"
+	"testing"
+
+	"gonum.org/v1/gonum/mat"
+)
+
+// tolProduct: a sparse row product sums at most n terms of size O(1) in a
+// different order from the dense oracle; 1e-12 covers that rounding.
+const tolProduct = 1e-12
+
+func randomDense(r, c int, seed uint64) *mat.Dense {
+	rng := rand.New(rand.NewPCG(seed, 2))
+	d := mat.NewDense(r, c, nil)
+	for i := range r {
+		for j := range c {
+			d.Set(i, j, rng.NormFloat64())
+		}
+	}
+	return d
+}
+
+// TestMulDenseOracle compares MulDense with gonum's dense product (the
+// oracle) over shapes including 1×n, n×1, empty rows and empty columns,
+// and checks the inputs are unchanged.
+func TestMulDenseOracle(t *testing.T) {
+	shapes := []struct{ m, n, p int }{{1, 7, 3}, {7, 1, 2}, {5, 5, 1}, {40, 30, 6}, {300, 200, 9}, {2000, 50, 4}}
+	for _, s := range shapes {
+		for _, density := range []float64{0.02, 0.3} {
+			t.Run(fmt.Sprintf("m=%d/n=%d/p=%d/density=%g", s.m, s.n, s.p, density), func(t *testing.T) {
+				a := randomCSR(s.m, s.n, density, uint64(s.m*s.n), s.m/2, s.n/3)
+				x := randomDense(s.n, s.p, 9)
+				before := mat.DenseCopyOf(x)
+				abefore := dense(a)
+				var got mat.Dense
+				MulDense(&got, a, x)
+				var want mat.Dense
+				want.Mul(abefore, x)
+				if !mat.EqualApprox(&got, &want, tolProduct) {
+					t.Fatalf("a·x differs from the dense product")
+				}
+				var gotT mat.Dense
+				y := randomDense(s.m, s.p, 10)
+				MulDense(&gotT, Transpose(a), y)
+				var wantT mat.Dense
+				wantT.Mul(abefore.T(), y)
+				if !mat.EqualApprox(&gotT, &wantT, tolProduct) {
+					t.Fatalf("aᵀ·y differs from the dense product")
+				}
+				if !mat.Equal(x, before) || !mat.Equal(dense(a), abefore) {
+					t.Fatal("an input changed")
+				}
+			})
+		}
+	}
+}
+
+// The product is bit-identical for any number of goroutines.
+func TestMulDenseDeterministic(t *testing.T) {
+	a := randomCSR(3000, 400, 0.05, 5, -1, -1)
+	x := randomDense(400, 8, 6)
+	var one, many mat.Dense
+	prev := runtime.GOMAXPROCS(1)
+	MulDense(&one, a, x)
+	runtime.GOMAXPROCS(8)
+	MulDense(&many, a, x)
+	runtime.GOMAXPROCS(prev)
+	if !mat.Equal(&one, &many) {
+		t.Fatal("GOMAXPROCS 1 and 8 give different bits")
+	}
+}
+
+func TestTransposeInvariants(t *testing.T) {
+	a := randomCSR(30, 20, 0.2, 4, 3, 5)
+	at := Transpose(a)
+	checkCSR(t, at)
+	if !mat.Equal(dense(at), dense(a).T()) {
+		t.Fatal("Transpose differs from the dense transpose")
+	}
+}
+
+func TestNormsOracle(t *testing.T) {
+	a := randomCSR(25, 15, 0.3, 8, 2, 4)
+	d := dense(a)
+	rows, cols := RowSqNorms(a), ColSqNorms(a)
+	var total float64
+	for i := range 25 {
+		r := mat.Norm(d.RowView(i), 2)
+		if diff := rows[i] - r*r; diff > tolProduct || diff < -tolProduct {
+			t.Errorf("row %d: %g vs %g", i, rows[i], r*r)
+		}
+		total += rows[i]
+	}
+	for j := range 15 {
+		c := mat.Norm(d.ColView(j), 2)
+		if diff := cols[j] - c*c; diff > tolProduct || diff < -tolProduct {
+			t.Errorf("col %d: %g vs %g", j, cols[j], c*c)
+		}
+	}
+	f := mat.Norm(d, 2)
+	if diff := FrobeniusSq(a) - f*f; diff > tolProduct || diff < -tolProduct {
+		t.Errorf("frobenius² %g vs %g", FrobeniusSq(a), f*f)
+	}
+}

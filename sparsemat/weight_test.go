@@ -1,0 +1,129 @@
+package sparsemat
+
+import (
+	"encoding/json"
+	"math"
+	"os"
+	"strings"
+	"testing"
+)
+
+// tolSklearn: scikit-learn and this package evaluate the same closed-form
+// expressions in float64, in a slightly different order; 1e-12 leaves room
+// for a few ulps on values of order 1.
+const tolSklearn = 1e-12
+
+type tfidfGolden struct {
+	Generator  string   `json:"generator"`
+	Source     string   `json:"source"`
+	Vocabulary []string `json:"vocabulary"`
+	Cases      []struct {
+		Name        string      `json:"name"`
+		SublinearTF bool        `json:"sublinear_tf"`
+		SmoothIDF   bool        `json:"smooth_idf"`
+		Norm        string      `json:"norm"`
+		IDF         []float64   `json:"idf"`
+		Matrix      [][]float64 `json:"matrix"`
+	} `json:"cases"`
+}
+
+// TestWeightMatchesScikitLearn compares the weights with scikit-learn's
+// TfidfVectorizer (Debian python3-sklearn 1.2.1) on a fixture of
+// pre-analysed tokens; testdata/reference/gen_tfidf.py wrote the golden.
+func TestWeightMatchesScikitLearn(t *testing.T) {
+	raw, err := os.ReadFile("../testdata/reference/tfidf.golden.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var g tfidfGolden
+	if err := json.Unmarshal(raw, &g); err != nil {
+		t.Fatal(err)
+	}
+	text, err := os.ReadFile("../testdata/reference/tfidf-docs.txt")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var b Builder
+	for line := range strings.Lines(strings.TrimSpace(string(text))) {
+		counts := map[string]int{}
+		for _, tok := range strings.Split(strings.TrimSpace(line), " ") {
+			counts[tok]++
+		}
+		b.AddRow(counts)
+	}
+	c, err := b.Build(Pruning{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if strings.Join(c.Terms, " ") != strings.Join(g.Vocabulary, " ") {
+		t.Fatalf("vocabulary\n got %v\nwant %v", c.Terms, g.Vocabulary)
+	}
+	for _, tc := range g.Cases {
+		t.Run(tc.Name, func(t *testing.T) {
+			w := Weighting{TF: TFRaw, IDF: IDFPlain, Norm: Norm(tc.Norm)}
+			if tc.SublinearTF {
+				w.TF = TFLog
+			}
+			if tc.SmoothIDF {
+				w.IDF = IDFSmooth
+			}
+			idf := IDFValues(c, w.IDF)
+			for j, want := range tc.IDF {
+				if math.Abs(idf[j]-want) > tolSklearn {
+					t.Errorf("idf[%s] = %.17g, want %.17g", c.Terms[j], idf[j], want)
+				}
+			}
+			a := Weight(c, w)
+			checkCSR(t, a)
+			for i, row := range tc.Matrix {
+				for j, want := range row {
+					if got := a.At(i, j); math.Abs(got-want) > tolSklearn {
+						t.Errorf("a(%d,%s) = %.17g, want %.17g", i, c.Terms[j], got, want)
+					}
+				}
+			}
+		})
+	}
+}
+
+// Properties of the default weighting (common practice, no outside source):
+// unit rows, non-negative weights, idf falling as df rises.
+func TestWeightProperties(t *testing.T) {
+	var b Builder
+	b.AddRow(map[string]int{"a": 3, "b": 1})
+	b.AddRow(map[string]int{"a": 1})
+	b.AddRow(map[string]int{"a": 1, "b": 2, "c": 7})
+	c, _ := b.Build(Pruning{})
+	a := Weight(c, DefaultWeighting)
+	for i, s := range RowSqNorms(a) {
+		if math.Abs(s-1) > 1e-15 {
+			t.Errorf("row %d squared norm %g, want 1", i, s)
+		}
+	}
+	idf := IDFValues(c, IDFSmooth)
+	if !(idf[0] < idf[1] && idf[1] < idf[2]) {
+		t.Errorf("idf %v should fall as df rises (df 3, 2, 1)", idf)
+	}
+	raw := a.RawMatrix()
+	for _, v := range raw.Data {
+		if v <= 0 {
+			t.Errorf("weight %g is not positive", v)
+		}
+	}
+}
+
+func TestWeightingValidate(t *testing.T) {
+	if err := DefaultWeighting.Validate(); err != nil {
+		t.Fatal(err)
+	}
+	bad := []Weighting{
+		{TF: "sqrt", IDF: IDFSmooth, Norm: NormL2},
+		{TF: TFLog, IDF: "prob", Norm: NormL2},
+		{TF: TFLog, IDF: IDFSmooth, Norm: "max"},
+	}
+	for _, w := range bad {
+		if err := w.Validate(); err == nil {
+			t.Errorf("%v: no error", w)
+		}
+	}
+}
