@@ -11,6 +11,11 @@ import (
 	"gonum.org/v1/gonum/mat"
 )
 
+// ExactLimit is the largest min(m, n) for which [TruncatedSVD] computes
+// the exact SVD (an eigendecomposition of an ExactLimit² Gram matrix takes
+// about a second here: 0.25 s at 500, 2.4 s at 1000).
+const ExactLimit = 800
+
 // DefaultPowerIters is the number of power iterations of [TruncatedSVD]
 // when the caller has no reason to choose.
 const DefaultPowerIters = 2
@@ -26,6 +31,9 @@ type SVDOptions struct {
 	PowerIters int
 	// Seed drives the Gaussian test matrix.
 	Seed uint64
+	// Randomized forces the randomized algorithm even when min(m, n) ≤
+	// ExactLimit (for tests and benchmarks).
+	Randomized bool
 }
 
 // SVD holds the leading singular triplets of a matrix: A ≈ U·diag(Values)·Vᵀ.
@@ -46,9 +54,16 @@ type SVD struct {
 // Tropp, "Finding structure with randomness", SIAM Review 53(2), 2011,
 // algorithms 4.4 and 5.1). at must be the transpose of a.
 //
-// The sketch has l = k + oversample columns. When l reaches half of
-// min(m, n), the sketch is widened to min(m, n) columns: it then spans the
-// whole range of a and the result is exact, at most twice the cost.
+// The sketch has l = k + oversample columns (at most min(m, n)).
+//
+// When min(m, n) ≤ [ExactLimit] it computes the SVD exactly instead, from
+// the eigendecomposition of the smaller Gram matrix (A·Aᵀ or Aᵀ·A, formed
+// sparse-by-sparse, never from a dense A): text spectra decay slowly, and
+// on the demo corpus two power iterations under-estimate the rank-12
+// captured share by 3% (0.260 against 0.2675), which would flatter every
+// figure measured against it. The Gram route squares the condition number,
+// which loses accuracy only in singular values below √ε·σ₁ — far below
+// anything the figures use.
 //
 // It returns an error when a is empty or the rank is out of range; Rank is
 // clamped to min(m, n).
@@ -65,15 +80,15 @@ func TruncatedSVD(a, at *sparse.CSR, opts SVDOptions) (*SVD, error) {
 	}
 	small := min(m, n)
 	k := min(opts.Rank, small)
+	if small <= ExactLimit && !opts.Randomized {
+		return gramSVD(a, at, k), nil
+	}
 	p := opts.Oversample
 	if p <= 0 {
 		p = max(10, (k+9)/10)
 	}
 	l := min(k+p, small)
-	exact := false
-	if 2*l >= small {
-		l, exact = small, true
-	}
+	exact := l == small
 
 	omega := mat.NewDense(n, l, nil)
 	rng := rand.New(rand.NewPCG(opts.Seed, 0x5eed5eed))
@@ -85,11 +100,7 @@ func TruncatedSVD(a, at *sparse.CSR, opts SVDOptions) (*SVD, error) {
 	var y, z mat.Dense
 	MulDense(&y, a, omega) // m×l
 	orthonormalize(&y)
-	q := opts.PowerIters
-	if exact {
-		q = 0
-	}
-	for range q {
+	for range opts.PowerIters {
 		z.Reset()
 		MulDense(&z, at, &y) // n×l
 		orthonormalize(&z)

@@ -40,7 +40,7 @@ func projector(x *mat.Dense) *mat.Dense {
 	return &p
 }
 
-// TestTruncatedSVDExactPath: small matrices take the exact path; values
+// TestTruncatedSVDExactPath: small matrices take the exact (Gram) path; values
 // match gonum's dense SVD, subspaces match by projectors, and the
 // Eckart–Young identity ‖A−A_k‖_F² = Σ_{i>k} σ_i² holds for the U, Σ, V
 // returned.
@@ -127,7 +127,7 @@ func lowRankPlusNoise(m, n, r int) *sparse.CSR {
 
 func TestTruncatedSVDRandomizedPath(t *testing.T) {
 	a := lowRankPlusNoise(300, 200, 5)
-	svd, err := TruncatedSVD(a, Transpose(a), SVDOptions{Rank: 5, PowerIters: 2, Seed: 3})
+	svd, err := TruncatedSVD(a, Transpose(a), SVDOptions{Rank: 5, PowerIters: 2, Seed: 3, Randomized: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -180,24 +180,26 @@ func TestTruncatedSVDMatchesNumpy(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, c := range g.Matrices {
-		t.Run(c.Name, func(t *testing.T) {
-			a := csrFromDense(c.Rows, c.Cols, c.A)
-			if c.Rank == 0 {
-				if a.NNZ() != 0 {
-					t.Fatal("rank-0 matrix has non-zeros")
+		for _, randomized := range []bool{false, true} {
+			t.Run(fmt.Sprintf("%s/randomized=%v", c.Name, randomized), func(t *testing.T) {
+				a := csrFromDense(c.Rows, c.Cols, c.A)
+				if c.Rank == 0 {
+					if a.NNZ() != 0 {
+						t.Fatal("rank-0 matrix has non-zeros")
+					}
+					return
 				}
-				return
-			}
-			svd, err := TruncatedSVD(a, Transpose(a), SVDOptions{Rank: min(c.Rows, c.Cols), PowerIters: 2, Seed: 1})
-			if err != nil {
-				t.Fatal(err)
-			}
-			for i, want := range c.SingularValues {
-				if math.Abs(svd.Values[i]-want) > tolExactSVD*math.Max(1, want) {
-					t.Errorf("σ_%d = %.15g, numpy %.15g", i+1, svd.Values[i], want)
+				svd, err := TruncatedSVD(a, Transpose(a), SVDOptions{Rank: min(c.Rows, c.Cols), PowerIters: 2, Seed: 1, Randomized: randomized})
+				if err != nil {
+					t.Fatal(err)
 				}
-			}
-		})
+				for i, want := range c.SingularValues {
+					if math.Abs(svd.Values[i]-want) > tolExactSVD*math.Max(1, want) {
+						t.Errorf("σ_%d = %.15g, numpy %.15g", i+1, svd.Values[i], want)
+					}
+				}
+			})
+		}
 	}
 }
 

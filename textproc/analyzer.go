@@ -27,8 +27,8 @@ type Options struct {
 // Analyzer turns text into stemmed index terms. Build one with
 // [NewAnalyzer]; it is not safe for concurrent use.
 type Analyzer struct {
-	opts   Options
-	fold   cases.Caser
+	opts Options
+	fold cases.Caser
 	memo map[string]memoEntry // folded token -> its analysis
 }
 

@@ -221,7 +221,7 @@ func numericalRank(values []float64, m, n int) int {
 
 func svdLabel(exact bool, power int) string {
 	if exact {
-		return "exact (the sketch spans the whole matrix)"
+		return "exact"
 	}
 	return fmt.Sprintf("randomized, %d power iterations", power)
 }
