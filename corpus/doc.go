@@ -31,7 +31,9 @@
 // # Document identity
 //
 // A document's ID is its slash-separated path relative to the root. Its
-// title is its first line with text on it (Markdown heading marks removed,
-// cut to [MaxTitleRunes] at a word boundary), or the file name when there
-// is none. Its hash is the SHA-256 of its raw bytes.
+// title is the rest of a "Subject:" line among its first ten lines with
+// text (memos and saved messages carry one), else its first line with text
+// on it (Markdown heading marks removed), cut to [MaxTitleRunes] at a word
+// boundary; the file name when there is none. A leading byte order mark is
+// dropped from the text. Its hash is the SHA-256 of its raw bytes.
 package corpus

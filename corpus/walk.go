@@ -146,6 +146,8 @@ func readFile(fsys fs.FS, p string, d fs.DirEntry, opts Options) (Document, stri
 	if bad*10 > len(raw) {
 		return Document{}, fmt.Sprintf("not UTF-8 text (%d invalid byte sequences in %d bytes)", bad, len(raw))
 	}
+	// A byte order mark is an encoding signature, not text.
+	text = strings.TrimPrefix(text, "\ufeff")
 	if strings.TrimSpace(text) == "" {
 		return Document{}, "no text (white space only)"
 	}
@@ -209,28 +211,58 @@ func repairUTF8(raw []byte) (string, int) {
 	return b.String(), bad
 }
 
-// Title returns the title of text: its first line with letters or digits
-// on it, with Markdown heading marks removed, cut to MaxTitleRunes at a word
-// boundary with an ellipsis; fallback when there is none.
+// subjectLines is how many lines with text [Title] searches for a
+// "Subject:" line.
+const subjectLines = 10
+
+// Title returns the title of text: the rest of a "Subject:" line (any
+// letter case) among the first ten lines with text, as memos and saved
+// messages carry one; otherwise the first line with letters or digits on
+// it, Markdown heading marks removed. The title is cut to MaxTitleRunes at
+// a word boundary with an ellipsis; fallback is returned when there is no
+// such line.
 func Title(text, fallback string) string {
+	first := ""
+	seen := 0
 	for line := range strings.Lines(text) {
 		t := strings.TrimSpace(line)
-		t = strings.TrimSpace(strings.TrimLeft(t, "#"))
-		if !strings.ContainsFunc(t, func(r rune) bool { return unicode.IsLetter(r) || unicode.IsDigit(r) }) {
+		if !hasText(t) {
 			continue
 		}
-		return cutTitle(strings.Join(strings.Fields(t), " "))
+		if len(t) > 8 && strings.EqualFold(t[:8], "subject:") && hasText(t[8:]) {
+			return cutTitle(strings.Join(strings.Fields(t[8:]), " "))
+		}
+		if first == "" {
+			if h := strings.TrimSpace(strings.TrimLeft(t, "#")); hasText(h) {
+				first = h
+			}
+		}
+		if seen++; seen >= subjectLines {
+			break
+		}
 	}
-	return fallback
+	if first == "" {
+		return fallback
+	}
+	return cutTitle(strings.Join(strings.Fields(first), " "))
 }
 
+func hasText(s string) bool {
+	return strings.ContainsFunc(s, func(r rune) bool { return unicode.IsLetter(r) || unicode.IsDigit(r) })
+}
+
+// cutTitle cuts t to at most MaxTitleRunes runes, the last an ellipsis,
+// at the last space in the second half of the allowed length if there is
+// one.
 func cutTitle(t string) string {
 	if utf8.RuneCountInString(t) <= MaxTitleRunes {
 		return t
 	}
 	runes := []rune(t)[:MaxTitleRunes-1]
-	if i := strings.LastIndexByte(string(runes), ' '); i > MaxTitleRunes/2 {
-		return strings.TrimRight(string(runes)[:i], " ,;:-") + "…"
+	for i := len(runes) - 1; i > MaxTitleRunes/2; i-- {
+		if runes[i] == ' ' {
+			return strings.TrimRight(string(runes[:i]), " ,;:-") + "…"
+		}
 	}
 	return string(runes) + "…"
 }

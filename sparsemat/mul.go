@@ -17,9 +17,6 @@ const blockNNZ = 1 << 14
 // MulDense sets dst = a·x, where a is m×n sparse and x is n×p dense. A
 // zero-value dst is sized to m×p; a dst of another shape panics, as do
 // mismatched shapes. The rows of dst are computed in parallel.
-//
-// For aᵀ·y, multiply by [Transpose](a): this keeps every product a row
-// computation with no cross-goroutine reduction.
 func MulDense(dst *mat.Dense, a *sparse.CSR, x *mat.Dense) {
 	raw := a.RawMatrix()
 	m, n := raw.I, raw.J
@@ -87,4 +84,55 @@ func rowBlocks(indptr []int, target int) []int {
 		bounds = append(bounds, m)
 	}
 	return bounds
+}
+
+// MulDenseT sets dst = aᵀ·y, where a is m×n sparse and y is m×p dense,
+// without forming aᵀ. A zero-value dst is sized to n×p; a dst of another
+// shape panics, as do mismatched shapes.
+//
+// The p columns of y are split into contiguous ranges, one per goroutine;
+// each goroutine streams the whole of a and adds a_ij·y(i, range) into
+// dst(j, range). Every element of dst is thus summed by one goroutine in row
+// order, so the bits do not depend on the split, and no partial copies of
+// dst are needed (a per-goroutine copy of an n×p result would cost more
+// memory than the transpose it avoids).
+func MulDenseT(dst *mat.Dense, a *sparse.CSR, y *mat.Dense) {
+	raw := a.RawMatrix()
+	m, n := raw.I, raw.J
+	yr, p := y.Dims()
+	if yr != m {
+		panic(mat.ErrShape)
+	}
+	if dst.IsEmpty() {
+		dst.ReuseAs(n, p)
+	} else if r, c := dst.Dims(); r != n || c != p {
+		panic(mat.ErrShape)
+	} else {
+		dst.Zero()
+	}
+	if n == 0 || p == 0 {
+		return
+	}
+	d := dst.RawMatrix()
+	ys := y.RawMatrix()
+	colRange := func(lo, hi int) {
+		for i := range m {
+			yrow := ys.Data[i*ys.Stride+lo : i*ys.Stride+hi]
+			for k := raw.Indptr[i]; k < raw.Indptr[i+1]; k++ {
+				j := raw.Ind[k]
+				floats.AddScaled(d.Data[j*d.Stride+lo:j*d.Stride+hi], raw.Data[k], yrow)
+			}
+		}
+	}
+	workers := min(runtime.GOMAXPROCS(0), p, max(1, raw.Indptr[m]/blockNNZ))
+	if workers <= 1 {
+		colRange(0, p)
+		return
+	}
+	var wg sync.WaitGroup
+	for w := range workers {
+		lo, hi := w*p/workers, (w+1)*p/workers
+		wg.Go(func() { colRange(lo, hi) })
+	}
+	wg.Wait()
 }

@@ -49,7 +49,12 @@ func TestMulDenseOracle(t *testing.T) {
 				var wantT mat.Dense
 				wantT.Mul(abefore.T(), y)
 				if !mat.EqualApprox(&gotT, &wantT, tolProduct) {
-					t.Fatalf("aᵀ·y differs from the dense product")
+					t.Fatalf("Transpose(a)·y differs from the dense product")
+				}
+				var gotT2 mat.Dense
+				MulDenseT(&gotT2, a, y)
+				if !mat.EqualApprox(&gotT2, &wantT, tolProduct) {
+					t.Fatalf("MulDenseT differs from the dense product")
 				}
 				if !mat.Equal(x, before) || !mat.Equal(dense(a), abefore) {
 					t.Fatal("an input changed")
@@ -63,14 +68,20 @@ func TestMulDenseOracle(t *testing.T) {
 func TestMulDenseDeterministic(t *testing.T) {
 	a := randomCSR(3000, 400, 0.05, 5, -1, -1)
 	x := randomDense(400, 8, 6)
-	var one, many mat.Dense
+	y := randomDense(3000, 8, 7)
+	var one, many, oneT, manyT mat.Dense
 	prev := runtime.GOMAXPROCS(1)
 	MulDense(&one, a, x)
+	MulDenseT(&oneT, a, y)
 	runtime.GOMAXPROCS(8)
 	MulDense(&many, a, x)
+	MulDenseT(&manyT, a, y)
 	runtime.GOMAXPROCS(prev)
 	if !mat.Equal(&one, &many) {
-		t.Fatal("GOMAXPROCS 1 and 8 give different bits")
+		t.Fatal("MulDense: GOMAXPROCS 1 and 8 give different bits")
+	}
+	if !mat.Equal(&oneT, &manyT) {
+		t.Fatal("MulDenseT: GOMAXPROCS 1 and 8 give different bits")
 	}
 }
 

@@ -64,9 +64,9 @@ func (a *Analyzer) Analyze(text string, emit func(stem, surface string)) {
 	Tokenize(a.Normalize(text), func(tok string) {
 		e, ok := a.memo[tok]
 		if !ok {
-			e.surface = strings.Clone(tok)
-			e.stem = a.term(e.surface)
-			a.memo[e.surface] = e
+			key := strings.Clone(tok)
+			e = a.analyzeToken(key)
+			a.memo[key] = e
 		}
 		if e.stem != "" {
 			emit(e.stem, e.surface)
@@ -74,9 +74,19 @@ func (a *Analyzer) Analyze(text string, emit func(stem, surface string)) {
 	})
 }
 
-// term analyses one folded token: "" when the token is dropped.
+// analyzeToken analyses one folded token.
+func (a *Analyzer) analyzeToken(tok string) memoEntry {
+	if IsEnglishStopWord(tok) { // before the possessive rule: "let's"
+		return memoEntry{surface: tok}
+	}
+	surface := strings.TrimSuffix(tok, "'s")
+	return memoEntry{stem: a.term(surface), surface: surface}
+}
+
+// term analyses one folded token with no possessive: "" when the token is
+// dropped.
 func (a *Analyzer) term(tok string) string {
-	if utf8.RuneCountInString(tok) < a.opts.MinLength {
+	if tok == "" || utf8.RuneCountInString(tok) < a.opts.MinLength {
 		return ""
 	}
 	if !a.opts.KeepNumbers && allDigits(tok) {
@@ -102,8 +112,20 @@ func allDigits(s string) bool {
 	return true
 }
 
-func isWordRune(r rune) bool {
-	return unicode.IsLetter(r) || unicode.IsDigit(r) || unicode.Is(unicode.Mn, r) || unicode.Is(unicode.Mc, r)
+// isWordStart reports a letter or digit, which can start or continue a
+// token.
+func isWordStart(r rune) bool {
+	return unicode.IsLetter(r) || unicode.IsDigit(r)
+}
+
+// isMark reports a combining mark (Mn, Mc) other than a variation selector:
+// variation selectors (U+FE00–U+FE0F, U+E0100–U+E01EF) only choose how an
+// emoji or ideograph is drawn and belong to no word.
+func isMark(r rune) bool {
+	if (r >= 0xfe00 && r <= 0xfe0f) || (r >= 0xe0100 && r <= 0xe01ef) {
+		return false
+	}
+	return unicode.Is(unicode.Mn, r) || unicode.Is(unicode.Mc, r)
 }
 
 func isApostrophe(r rune) bool {
@@ -111,17 +133,13 @@ func isApostrophe(r rune) bool {
 }
 
 // Tokenize splits already-normalised text into tokens by the rule in the
-// package documentation and calls fn with each. The string passed to fn is
-// only valid during the call.
+// package documentation and calls fn with each. Apostrophes inside a token
+// are written as U+0027; a possessive "'s" is left on (the analyzer removes
+// it after the stop-list look-up, so that "let's" can match the list). The
+// string passed to fn is only valid during the call.
 func Tokenize(text string, fn func(tok string)) {
 	var buf []byte
 	flush := func() {
-		if len(buf) == 0 {
-			return
-		}
-		if n := len(buf); n >= 2 && buf[n-2] == '\'' && buf[n-1] == 's' {
-			buf = buf[:n-2]
-		}
 		if len(buf) > 0 {
 			fn(unsafeString(buf))
 		}
@@ -130,15 +148,19 @@ func Tokenize(text string, fn func(tok string)) {
 	for i := 0; i < len(text); {
 		r, size := utf8.DecodeRuneInString(text[i:])
 		switch {
-		case isWordRune(r):
-			buf = utf8.AppendRune(buf, r)
-		case isApostrophe(r) && len(buf) > 0:
+		case isApostrophe(r):
+			// Checked before the letter test: U+02BC is a letter (Lm).
 			next, _ := utf8.DecodeRuneInString(text[i+size:])
-			if i+size < len(text) && isWordRune(next) {
+			if len(buf) > 0 && i+size < len(text) && isWordStart(next) {
 				buf = append(buf, '\'')
 			} else {
 				flush()
 			}
+		case isWordStart(r):
+			buf = utf8.AppendRune(buf, r)
+		case isMark(r) && len(buf) > 0:
+			// A combining mark continues a token but never starts one.
+			buf = utf8.AppendRune(buf, r)
 		default:
 			flush()
 		}
