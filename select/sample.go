@@ -9,51 +9,32 @@ import (
 
 	"github.com/james-bowman/sparse"
 	"gonum.org/v1/gonum/mat"
-
-	"assay/sparsemat"
 )
 
-// Options configures a sampling method.
-type Options struct {
-	// Rows is the number r of row draws (documents); Cols the number c of
-	// column draws (terms). Both must be at least 1.
-	Rows, Cols int
-	// Seed drives every random draw.
-	Seed uint64
-}
-
-// Pick is one distinct row or column in a CUR, with how it was drawn.
+// Pick is one distinct row or column in a CUR, with how it was chosen.
 type Pick struct {
 	// Index is the row or column of A.
 	Index int
-	// Count is how many of the draws gave this index.
+	// Order is the position of the pick in the order the method chose it
+	// (the first draw that gave it, for the sampling methods), from 0.
+	Order int
+	// Count is how many draws gave this index (1 for deterministic methods).
 	Count int
-	// Prob is the probability of this index in one draw.
-	Prob float64
-	// Weight is the scale applied to the row or column: √Count/√(draws·Prob).
+	// Score is what the method ranked by: the probability of one draw for
+	// the sampling methods (norm, leverage), the rank-k leverage score for
+	// top, the magnitude of the pivot for pivot, and the share of ‖A‖_F²
+	// the pick added for greedy.
+	Score float64
+	// Weight is the scale applied to the row or column in C or R:
+	// √Count/√(draws·p) for the sampling methods, 1 for the others.
 	Weight float64
-}
-
-// CUR is a decomposition A ≈ C·U·R made of actual columns and rows of A.
-type CUR struct {
-	// Rows are the picked rows (R), in increasing index order.
-	Rows []Pick
-	// Cols are the picked columns (C), in increasing index order.
-	Cols []Pick
-	// C is m×len(Cols): the picked columns of A, each times its Weight.
-	C *mat.Dense
-	// R is len(Rows)×n: the picked rows of A, each times its Weight.
-	R *mat.Dense
-	// U is len(Cols)×len(Rows).
-	U *mat.Dense
-	// CoreRank is the numerical rank of the core that was inverted.
-	CoreRank int
 }
 
 // Draw samples draws indices with replacement from the distribution
 // proportional to weights (which need not sum to 1; negative weights are
-// not allowed) and returns the distinct indices drawn with their counts,
-// in increasing index order. It returns an error when every weight is zero.
+// not allowed) and returns the distinct indices drawn with their counts and
+// scales, in the order first drawn. It returns an error when every weight
+// is zero.
 func Draw(rng *rand.Rand, weights []float64, draws int) ([]Pick, error) {
 	cum := make([]float64, len(weights))
 	var total float64
@@ -67,75 +48,27 @@ func Draw(rng *rand.Rand, weights []float64, draws int) ([]Pick, error) {
 	if total <= 0 {
 		return nil, errors.New("every sampling weight is zero")
 	}
-	counts := make(map[int]int)
+	pos := make(map[int]int)
+	var picks []Pick
 	for range draws {
 		u := rng.Float64() * total
 		i := sort.SearchFloat64s(cum, u)
-		// SearchFloat64s finds the first cum ≥ u; step past zero-weight
-		// entries that share the same cumulative value (u = cum[i]).
+		// SearchFloat64s finds the first cum ≥ u; step past entries whose
+		// weight is zero or whose cumulative value equals u exactly.
 		for i < len(cum)-1 && (cum[i] <= u || weights[i] == 0) {
 			i++
 		}
-		counts[i]++
+		if p, ok := pos[i]; ok {
+			picks[p].Count++
+			continue
+		}
+		pos[i] = len(picks)
+		picks = append(picks, Pick{Index: i, Order: len(picks), Count: 1, Score: weights[i] / total})
 	}
-	picks := make([]Pick, 0, len(counts))
-	for i, c := range counts {
-		p := weights[i] / total
-		picks = append(picks, Pick{
-			Index:  i,
-			Count:  c,
-			Prob:   p,
-			Weight: math.Sqrt(float64(c) / (float64(draws) * p)),
-		})
+	for k := range picks {
+		picks[k].Weight = math.Sqrt(float64(picks[k].Count) / (float64(draws) * picks[k].Score))
 	}
-	sort.Slice(picks, func(a, b int) bool { return picks[a].Index < picks[b].Index })
 	return picks, nil
-}
-
-// Random streams: columns and rows are drawn from independent streams of
-// the same seed, so changing r does not change the column picks.
-const (
-	streamCols = 0xc01
-	streamRows = 0x20f
-)
-
-// SquaredNorm picks columns and rows of a by squared-norm sampling and sets
-// U = W⁺, as described in the package documentation. It returns an error
-// for an empty or all-zero matrix or non-positive draw counts.
-func SquaredNorm(a *sparse.CSR, opts Options) (*CUR, error) {
-	if err := checkInput(a, opts); err != nil {
-		return nil, err
-	}
-	colRng := rand.New(rand.NewPCG(opts.Seed, streamCols))
-	rowRng := rand.New(rand.NewPCG(opts.Seed, streamRows))
-	cols, err := Draw(colRng, sparsemat.ColSqNorms(a), opts.Cols)
-	if err != nil {
-		return nil, fmt.Errorf("draw terms: %w", err)
-	}
-	rows, err := Draw(rowRng, sparsemat.RowSqNorms(a), opts.Rows)
-	if err != nil {
-		return nil, fmt.Errorf("draw documents: %w", err)
-	}
-	cur := &CUR{Rows: rows, Cols: cols}
-	cur.C = pickedCols(a, cols)
-	cur.R = pickedRows(a, rows)
-	w := intersection(cur.C, rows)
-	cur.U, cur.CoreRank = Pinv(w)
-	return cur, nil
-}
-
-func checkInput(a *sparse.CSR, opts Options) error {
-	m, n := a.Dims()
-	if m == 0 || n == 0 {
-		return errors.New("the matrix is empty")
-	}
-	if opts.Rows < 1 || opts.Cols < 1 {
-		return fmt.Errorf("need at least one row and one column draw (got %d and %d)", opts.Rows, opts.Cols)
-	}
-	if sparsemat.FrobeniusSq(a) == 0 {
-		return errors.New("the matrix is all zeros")
-	}
-	return nil
 }
 
 // pickedCols returns the m×len(cols) dense matrix of the picked columns of

@@ -54,14 +54,51 @@ func BenchmarkGuardMulDense(b *testing.B) {
 // the largest size the exact path takes.
 func BenchmarkTruncatedSVD(b *testing.B) {
 	a := randomCSR(ExactLimit, 20000, 0.005, 3, -1, -1)
-	at := Transpose(a)
 	for _, randomized := range []bool{false, true} {
 		b.Run(fmt.Sprintf("docs=%d/terms=20000/k=20/randomized=%v", ExactLimit, randomized), func(b *testing.B) {
 			for b.Loop() {
-				if _, err := TruncatedSVD(a, at, SVDOptions{Rank: 20, PowerIters: 2, Seed: 1, Randomized: randomized}); err != nil {
+				if _, err := TruncatedSVD(a, SVDOptions{Rank: 20, PowerIters: 2, Seed: 1, Randomized: randomized}); err != nil {
 					b.Fatal(err)
 				}
 			}
 		})
 	}
+}
+
+// BenchmarkMulDenseT compares aᵀ·y without a transpose against the product
+// with a stored transpose, side by side.
+func BenchmarkMulDenseT(b *testing.B) {
+	a := randomCSR(20000, 50000, 100.0/50000, 1, -1, -1)
+	y := randomDense(20000, 60, 2)
+	at := Transpose(a)
+	b.Run("MulDenseT", func(b *testing.B) {
+		var dst mat.Dense
+		for b.Loop() {
+			dst.Reset()
+			MulDenseT(&dst, a, y)
+		}
+	})
+	b.Run("MulDense-of-transpose", func(b *testing.B) {
+		var dst mat.Dense
+		for b.Loop() {
+			dst.Reset()
+			MulDense(&dst, at, y)
+		}
+	})
+}
+
+// BenchmarkOrthonormalize compares CholeskyQR2 with Householder QR on the
+// block shape of a randomized SVD of a 100,000-document corpus.
+func BenchmarkOrthonormalize(b *testing.B) {
+	y0 := randomDense(100000, 60, 3)
+	b.Run("choleskyQR2", func(b *testing.B) {
+		for b.Loop() {
+			orthonormalize(mat.DenseCopyOf(y0))
+		}
+	})
+	b.Run("householder", func(b *testing.B) {
+		for b.Loop() {
+			householder(mat.DenseCopyOf(y0))
+		}
+	})
 }

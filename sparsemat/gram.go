@@ -55,9 +55,10 @@ func Gram(a, at *sparse.CSR) *mat.SymDense {
 
 // gramSVD computes the leading k singular triplets exactly from the
 // eigendecomposition of the smaller Gram matrix.
-func gramSVD(a, at *sparse.CSR, k int) *SVD {
+func gramSVD(a *sparse.CSR, k int) *SVD {
 	m, n := a.Dims()
 	wide := m <= n // A·Aᵀ is the smaller one
+	at := Transpose(a)
 	var g *mat.SymDense
 	if wide {
 		g = Gram(a, at)

@@ -2,6 +2,7 @@ package sparsemat
 
 import (
 	"runtime"
+	"slices"
 	"sync"
 
 	"github.com/james-bowman/sparse"
@@ -37,6 +38,16 @@ func MulDense(dst *mat.Dense, a *sparse.CSR, x *mat.Dense) {
 	d := dst.RawMatrix()
 	xs := x.RawMatrix()
 	rowRange := func(lo, hi int) {
+		if p == 1 { // a vector: a plain dot product per row, no call per entry
+			for i := lo; i < hi; i++ {
+				var sum float64
+				for k := raw.Indptr[i]; k < raw.Indptr[i+1]; k++ {
+					sum += raw.Data[k] * xs.Data[raw.Ind[k]*xs.Stride]
+				}
+				d.Data[i*d.Stride] = sum
+			}
+			return
+		}
 		for i := lo; i < hi; i++ {
 			out := d.Data[i*d.Stride : i*d.Stride+p]
 			for k := raw.Indptr[i]; k < raw.Indptr[i+1]; k++ {
@@ -90,12 +101,13 @@ func rowBlocks(indptr []int, target int) []int {
 // without forming aᵀ. A zero-value dst is sized to n×p; a dst of another
 // shape panics, as do mismatched shapes.
 //
-// The p columns of y are split into contiguous ranges, one per goroutine;
-// each goroutine streams the whole of a and adds a_ij·y(i, range) into
-// dst(j, range). Every element of dst is thus summed by one goroutine in row
-// order, so the bits do not depend on the split, and no partial copies of
-// dst are needed (a per-goroutine copy of an n×p result would cost more
-// memory than the transpose it avoids).
+// The columns of a (the rows of dst) are split into contiguous ranges of
+// about equal numbers of stored values, one range per goroutine. Each
+// goroutine walks every row of a, finds the part of the row inside its
+// range by binary search, and adds a_ij·y(i, :) into dst(j, :). Every row
+// of dst is thus summed by one goroutine in row order, so the bits do not
+// depend on the split, no partial copies of dst are needed, and each stored
+// value is read once.
 func MulDenseT(dst *mat.Dense, a *sparse.CSR, y *mat.Dense) {
 	raw := a.RawMatrix()
 	m, n := raw.I, raw.J
@@ -116,23 +128,62 @@ func MulDenseT(dst *mat.Dense, a *sparse.CSR, y *mat.Dense) {
 	d := dst.RawMatrix()
 	ys := y.RawMatrix()
 	colRange := func(lo, hi int) {
+		if p == 1 && lo == 0 && hi == n { // a vector, one goroutine: scatter scalars
+			for i := range m {
+				yi := ys.Data[i*ys.Stride]
+				for k := raw.Indptr[i]; k < raw.Indptr[i+1]; k++ {
+					d.Data[raw.Ind[k]*d.Stride] += raw.Data[k] * yi
+				}
+			}
+			return
+		}
 		for i := range m {
-			yrow := ys.Data[i*ys.Stride+lo : i*ys.Stride+hi]
-			for k := raw.Indptr[i]; k < raw.Indptr[i+1]; k++ {
-				j := raw.Ind[k]
-				floats.AddScaled(d.Data[j*d.Stride+lo:j*d.Stride+hi], raw.Data[k], yrow)
+			row := raw.Ind[raw.Indptr[i]:raw.Indptr[i+1]]
+			k0, _ := slices.BinarySearch(row, lo)
+			yrow := ys.Data[i*ys.Stride : i*ys.Stride+p]
+			for k := k0; k < len(row) && row[k] < hi; k++ {
+				j := row[k]
+				floats.AddScaled(d.Data[j*d.Stride:j*d.Stride+p], raw.Data[raw.Indptr[i]+k], yrow)
 			}
 		}
 	}
-	workers := min(runtime.GOMAXPROCS(0), p, max(1, raw.Indptr[m]/blockNNZ))
+	nnz := raw.Indptr[m]
+	workers := min(runtime.GOMAXPROCS(0), n, max(1, nnz/blockNNZ))
+	if p == 1 {
+		workers = 1 // a vector product is bound by memory, not arithmetic
+	}
 	if workers <= 1 {
-		colRange(0, p)
+		colRange(0, n)
 		return
 	}
+	bounds := columnSplit(raw.Ind[:nnz], n, workers)
 	var wg sync.WaitGroup
 	for w := range workers {
-		lo, hi := w*p/workers, (w+1)*p/workers
+		lo, hi := bounds[w], bounds[w+1]
 		wg.Go(func() { colRange(lo, hi) })
 	}
 	wg.Wait()
+}
+
+// columnSplit returns parts+1 column boundaries that split the stored
+// values ind into parts ranges of about equal size.
+func columnSplit(ind []int, n, parts int) []int {
+	counts := make([]int, n)
+	for _, j := range ind {
+		counts[j]++
+	}
+	bounds := make([]int, 1, parts+1)
+	acc, next := 0, 1
+	for j, c := range counts {
+		acc += c
+		for next < parts && acc*parts >= next*len(ind) {
+			bounds = append(bounds, j+1)
+			next++
+		}
+	}
+	for len(bounds) <= parts {
+		bounds = append(bounds, n)
+	}
+	bounds[parts] = n
+	return bounds
 }

@@ -5,6 +5,11 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"runtime"
+	"sync"
+
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/blas/blas64"
 
 	"github.com/james-bowman/sparse"
 	"gonum.org/v1/gonum/lapack/lapack64"
@@ -52,7 +57,8 @@ type SVD struct {
 // TruncatedSVD computes the leading opts.Rank singular triplets of a by the
 // randomized range finder with power iterations (Halko, Martinsson and
 // Tropp, "Finding structure with randomness", SIAM Review 53(2), 2011,
-// algorithms 4.4 and 5.1). at must be the transpose of a.
+// algorithms 4.4 and 5.1). Products with aᵀ go through [MulDenseT], so no
+// transpose is stored.
 //
 // The sketch has l = k + oversample columns (at most min(m, n)).
 //
@@ -67,7 +73,7 @@ type SVD struct {
 //
 // It returns an error when a is empty or the rank is out of range; Rank is
 // clamped to min(m, n).
-func TruncatedSVD(a, at *sparse.CSR, opts SVDOptions) (*SVD, error) {
+func TruncatedSVD(a *sparse.CSR, opts SVDOptions) (*SVD, error) {
 	m, n := a.Dims()
 	if m == 0 || n == 0 {
 		return nil, errors.New("svd of an empty matrix")
@@ -81,7 +87,7 @@ func TruncatedSVD(a, at *sparse.CSR, opts SVDOptions) (*SVD, error) {
 	small := min(m, n)
 	k := min(opts.Rank, small)
 	if small <= ExactLimit && !opts.Randomized {
-		return gramSVD(a, at, k), nil
+		return gramSVD(a, k), nil
 	}
 	p := opts.Oversample
 	if p <= 0 {
@@ -99,34 +105,36 @@ func TruncatedSVD(a, at *sparse.CSR, opts SVDOptions) (*SVD, error) {
 
 	var y, z mat.Dense
 	MulDense(&y, a, omega) // m×l
+	omega = nil            // let the collector have it during the iterations
 	orthonormalize(&y)
 	for range opts.PowerIters {
-		z.Reset()
-		MulDense(&z, at, &y) // n×l
+		MulDenseT(&z, a, &y) // n×l, reusing z after the first pass
 		orthonormalize(&z)
-		y.Reset()
 		MulDense(&y, a, &z)
 		orthonormalize(&y)
 	}
-	// Bᵀ = Aᵀ·Q is n×l; its thin SVD Bᵀ = Ũ Σ Ṽᵀ gives A ≈ (Q Ṽ) Σ Ũᵀ.
-	var bt mat.Dense
-	MulDense(&bt, at, &y)
+	// Bᵀ = Aᵀ·Q is n×l. Factor it as Bᵀ = Q₂·R₂ (Q₂ orthonormal, R₂ = Q₂ᵀ·Bᵀ
+	// small), take the SVD R₂ = U_r·Σ·V_rᵀ of the small factor, and then
+	// A ≈ Q·B = (Q·V_r)·Σ·(Q₂·U_r)ᵀ. This keeps the dense SVD at l×l; an
+	// SVD of the whole n×l block costs more than the sparse products.
+	bt := &z
+	MulDenseT(bt, a, &y)
+	q2 := mat.DenseCopyOf(bt)
+	orthonormalize(q2)
+	var r2 mat.Dense
+	r2.Mul(q2.T(), bt) // l×l
+	bt, z = nil, mat.Dense{}
 	var svd mat.SVD
-	if !svd.Factorize(&bt, mat.SVDThin) {
+	if !svd.Factorize(&r2, mat.SVDFull) {
 		return nil, errors.New("svd of the projected matrix did not converge")
 	}
 	vals := svd.Values(nil)
-	var ut, vt mat.Dense
-	svd.UTo(&ut) // n×l
-	svd.VTo(&vt) // l×l
-	var u mat.Dense
-	u.Mul(&y, &vt) // m×l dense × dense
-	out := &SVD{
-		Values: vals[:k],
-		U:      mat.DenseCopyOf(u.Slice(0, m, 0, k)),
-		V:      mat.DenseCopyOf(ut.Slice(0, n, 0, k)),
-		Exact:  exact,
-	}
+	var ur, vr mat.Dense
+	svd.UTo(&ur) // l×l
+	svd.VTo(&vr) // l×l
+	out := &SVD{Values: vals[:k], Exact: exact}
+	out.U = mulInPlace(&y, vr.Slice(0, l, 0, k).(*mat.Dense)) // m×k: Q·V_r
+	out.V = mulInPlace(q2, ur.Slice(0, l, 0, k).(*mat.Dense)) // n×k: Q₂·U_r
 	for i, v := range out.Values {
 		if v < 0 || math.IsNaN(v) {
 			out.Values[i] = 0
@@ -135,14 +143,129 @@ func TruncatedSVD(a, at *sparse.CSR, opts SVDOptions) (*SVD, error) {
 	return out, nil
 }
 
+// mulInPlace overwrites the first k columns of x (r×l) with x·w for an l×k
+// w, one row at a time, and returns them as an r×k view of x's memory: the
+// products of a randomized SVD are as tall as the corpus, and a second
+// block of that size would raise the peak memory by as much.
+func mulInPlace(x, w *mat.Dense) *mat.Dense {
+	r, l := x.Dims()
+	_, k := w.Dims()
+	tmp := mat.NewVecDense(k, nil)
+	for i := range r {
+		row := x.RawRowView(i)
+		tmp.MulVec(w.T(), mat.NewVecDense(l, row))
+		copy(row[:k], tmp.RawVector().Data)
+	}
+	return x.Slice(0, r, 0, k).(*mat.Dense)
+}
+
 // orthonormalize replaces the columns of y (rows ≥ columns) by an
-// orthonormal basis of their span, from a Householder QR (LAPACK dgeqrf and
-// dorgqr through gonum).
+// orthonormal basis of their span.
+//
+// It uses Cholesky QR twice ("CholeskyQR2"): G = YᵀY = UᵀU, Y ← Y·U⁻¹,
+// repeated once to restore orthogonality to working precision (Yamamoto,
+// Nakatsukasa, Yanagisawa and Fukaya, "Roundoff error analysis of the
+// CholeskyQR2 algorithm", ETNA 44, 2015: it is stable while cond(Y) stays
+// well below ε^(−1/2) ≈ 6.7e7, and every sketch here is a product of A with
+// an orthonormal block, so cond(Y) ≤ σ₁/σ_l). Both the Gram matrix and the
+// triangular solve run in parallel over fixed blocks of rows, summed in
+// block order, so the bits do not depend on GOMAXPROCS. On a 100,000×60
+// block it takes 0.27 s against 0.59 s for Householder QR (LAPACK
+// dgeqrf/dorgqr through gonum) on 2 cores (BenchmarkOrthonormalize). When Y is numerically
+// rank-deficient, Cholesky fails and Householder QR is used instead.
 func orthonormalize(y *mat.Dense) {
 	r, c := y.Dims()
 	if c > r {
 		panic("sparsemat: orthonormalize needs rows ≥ columns")
 	}
+	for range 2 {
+		if !choleskyStep(y) {
+			householder(y)
+			return
+		}
+	}
+}
+
+// gramRows is the number of rows per block of the parallel Gram matrix and
+// triangular solve. Fixed, so that the sum order does not depend on the
+// number of goroutines.
+const gramRows = 4096
+
+// choleskyStep does one Cholesky QR pass on y in place; false when YᵀY is
+// not numerically positive definite (y is left unchanged then).
+func choleskyStep(y *mat.Dense) bool {
+	r, c := y.Dims()
+	blocks := (r + gramRows - 1) / gramRows
+	parts := make([]*mat.SymDense, blocks)
+	parallelBlocks(blocks, func(b int) {
+		lo, hi := b*gramRows, min((b+1)*gramRows, r)
+		var g mat.SymDense
+		g.SymOuterK(1, y.Slice(lo, hi, 0, c).T())
+		parts[b] = &g
+	})
+	g := mat.NewSymDense(c, nil)
+	for _, p := range parts { // block order: fixed
+		g.AddSym(g, p)
+	}
+	var ch mat.Cholesky
+	if !ch.Factorize(g) {
+		return false
+	}
+	// Factorize accepts matrices that are positive definite only to
+	// rounding; insist on a pivot well above ε relative to the largest.
+	var u mat.TriDense
+	ch.UTo(&u)
+	var dmax, dmin float64
+	for i := range c {
+		d := math.Abs(u.At(i, i))
+		dmax = math.Max(dmax, d)
+		if i == 0 || d < dmin {
+			dmin = d
+		}
+	}
+	if dmin <= 1e-7*dmax {
+		return false
+	}
+	raw := u.RawTriangular()
+	parallelBlocks(blocks, func(b int) {
+		lo, hi := b*gramRows, min((b+1)*gramRows, r)
+		blk := y.Slice(lo, hi, 0, c).(*mat.Dense).RawMatrix()
+		blas64.Trsm(blas.Right, blas.NoTrans, 1, raw, blk)
+	})
+	return true
+}
+
+// parallelBlocks runs fn for every block index, spread over GOMAXPROCS
+// goroutines.
+func parallelBlocks(blocks int, fn func(b int)) {
+	workers := min(runtime.GOMAXPROCS(0), blocks)
+	if workers <= 1 {
+		for b := range blocks {
+			fn(b)
+		}
+		return
+	}
+	next := make(chan int, blocks)
+	for b := range blocks {
+		next <- b
+	}
+	close(next)
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Go(func() {
+			for b := range next {
+				fn(b)
+			}
+		})
+	}
+	wg.Wait()
+}
+
+// householder orthonormalises the columns of y by Householder QR (LAPACK
+// dgeqrf and dorgqr through gonum). For a rank-deficient y the extra
+// columns are orthonormal directions outside its span.
+func householder(y *mat.Dense) {
+	_, c := y.Dims()
 	g := y.RawMatrix()
 	tau := make([]float64, c)
 	work := make([]float64, 1)

@@ -51,7 +51,7 @@ func TestTruncatedSVDExactPath(t *testing.T) {
 			if FrobeniusSq(a) == 0 {
 				t.Skip("random matrix came out empty")
 			}
-			svd, err := TruncatedSVD(a, Transpose(a), SVDOptions{Rank: s.k, PowerIters: 2, Seed: 1})
+			svd, err := TruncatedSVD(a, SVDOptions{Rank: s.k, PowerIters: 2, Seed: 1})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -127,7 +127,7 @@ func lowRankPlusNoise(m, n, r int) *sparse.CSR {
 
 func TestTruncatedSVDRandomizedPath(t *testing.T) {
 	a := lowRankPlusNoise(300, 200, 5)
-	svd, err := TruncatedSVD(a, Transpose(a), SVDOptions{Rank: 5, PowerIters: 2, Seed: 3, Randomized: true})
+	svd, err := TruncatedSVD(a, SVDOptions{Rank: 5, PowerIters: 2, Seed: 3, Randomized: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -189,7 +189,7 @@ func TestTruncatedSVDMatchesNumpy(t *testing.T) {
 					}
 					return
 				}
-				svd, err := TruncatedSVD(a, Transpose(a), SVDOptions{Rank: min(c.Rows, c.Cols), PowerIters: 2, Seed: 1, Randomized: randomized})
+				svd, err := TruncatedSVD(a, SVDOptions{Rank: min(c.Rows, c.Cols), PowerIters: 2, Seed: 1, Randomized: randomized})
 				if err != nil {
 					t.Fatal(err)
 				}
@@ -222,14 +222,58 @@ func csrFromDense(m, n int, d []float64) *sparse.CSR {
 
 func TestTruncatedSVDErrors(t *testing.T) {
 	a := randomCSR(4, 4, 1, 1, -1, -1)
-	if _, err := TruncatedSVD(a, Transpose(a), SVDOptions{Rank: 0}); err == nil {
+	if _, err := TruncatedSVD(a, SVDOptions{Rank: 0}); err == nil {
 		t.Error("rank 0: no error")
 	}
-	if _, err := TruncatedSVD(a, Transpose(a), SVDOptions{Rank: 1, PowerIters: -1}); err == nil {
+	if _, err := TruncatedSVD(a, SVDOptions{Rank: 1, PowerIters: -1}); err == nil {
 		t.Error("negative power iterations: no error")
 	}
 	e := sparse.NewCSR(0, 3, []int{0}, nil, nil)
-	if _, err := TruncatedSVD(e, Transpose(e), SVDOptions{Rank: 1}); err == nil {
+	if _, err := TruncatedSVD(e, SVDOptions{Rank: 1}); err == nil {
 		t.Error("empty matrix: no error")
+	}
+}
+
+// orthonormalize must give orthonormal columns spanning the input's column
+// space: checked against Householder QR (an independent
+// route through LAPACK), on a well-conditioned block, an ill-conditioned
+// one (columns scaled over six orders of magnitude) and a rank-deficient
+// one, which takes the Householder fallback.
+func TestOrthonormalize(t *testing.T) {
+	const tolOrtho = 1e-12            // orthogonality to working precision, times a few n
+	well := randomDense(9000, 12, 31) // more than two row blocks
+	ill := mat.DenseCopyOf(well)
+	for j := range 12 {
+		for i := range 9000 {
+			ill.Set(i, j, ill.At(i, j)*math.Pow(10, -float64(j)/2))
+		}
+	}
+	deficient := mat.DenseCopyOf(well)
+	for i := range 9000 {
+		deficient.Set(i, 11, deficient.At(i, 0)+deficient.At(i, 1))
+	}
+	for name, y := range map[string]*mat.Dense{"well": well, "ill": ill, "deficient": deficient} {
+		t.Run(name, func(t *testing.T) {
+			got := mat.DenseCopyOf(y)
+			orthonormalize(got)
+			var qtq mat.Dense
+			qtq.Mul(got.T(), got)
+			if !mat.EqualApprox(&qtq, eye(12), tolOrtho) {
+				t.Fatal("columns are not orthonormal")
+			}
+			if name == "deficient" {
+				return // the 12th direction is arbitrary
+			}
+			// Same span: M = Q_refᵀ·Q is orthogonal exactly when the two
+			// orthonormal bases span the same space (MᵀM = I).
+			ref := mat.DenseCopyOf(y)
+			householder(ref)
+			var m, mtm mat.Dense
+			m.Mul(ref.T(), got)
+			mtm.Mul(m.T(), &m)
+			if !mat.EqualApprox(&mtm, eye(12), 1e-9) {
+				t.Fatal("span differs from Householder QR's")
+			}
+		})
 	}
 }

@@ -22,7 +22,8 @@ func demoBytes(b *testing.B) int64 {
 }
 
 func benchOptions(b *testing.B) pickOptions {
-	f := pickFlags{format: "json", method: "norm", docs: 10, terms: 20, minDF: -1, maxDF: 0.5, tf: "log", idf: "smooth", norm: "l2", maxBytes: 20 << 20, minLen: 2, power: 2}
+	f := defaultFlags(b)
+	f.format = "json"
 	opts, err := f.options(demoSource)
 	if err != nil {
 		b.Fatal(err)

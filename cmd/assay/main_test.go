@@ -13,10 +13,25 @@ import (
 	"testing"
 	"testing/fstest"
 
+	"github.com/spf13/pflag"
+
 	"assay/corpus/demo"
 )
 
 var update = flag.Bool("update", false, "rewrite the golden files in testdata/")
+
+// defaultFlags returns the pick flags as the command line sets them when
+// none is given.
+func defaultFlags(tb testing.TB) pickFlags {
+	tb.Helper()
+	var f pickFlags
+	fl := pflag.NewFlagSet("pick", pflag.ContinueOnError)
+	f.register(fl)
+	if err := fl.Parse(nil); err != nil {
+		tb.Fatal(err)
+	}
+	return f
+}
 
 // run executes assay in-process with a fixed version and returns the exit
 // code, stdout and stderr.
@@ -110,12 +125,21 @@ func TestJSONParsesBack(t *testing.T) {
 			Docs, Terms, Rank int
 		} `json:"options"`
 		Figures struct {
-			RelErr       float64   `json:"relative_error"`
-			Captured     float64   `json:"captured"`
-			BestRelErr   float64   `json:"best_relative_error"`
-			BestCaptured float64   `json:"best_captured"`
-			Ratio        *float64  `json:"ratio"`
-			Values       []float64 `json:"singular_values"`
+			Documents struct {
+				Count        int      `json:"count"`
+				Captured     float64  `json:"captured"`
+				BestCaptured float64  `json:"best_captured"`
+				Eta          *float64 `json:"eta"`
+			} `json:"documents"`
+			Joint struct {
+				RelErr       float64  `json:"relative_error"`
+				Captured     float64  `json:"captured"`
+				BestRelErr   float64  `json:"best_relative_error"`
+				BestCaptured float64  `json:"best_captured"`
+				Ratio        *float64 `json:"ratio"`
+				Eta          *float64 `json:"eta"`
+			} `json:"joint"`
+			Values []float64 `json:"singular_values"`
 		} `json:"figures"`
 		Caution string `json:"caution"`
 	}
@@ -142,16 +166,25 @@ func TestJSONParsesBack(t *testing.T) {
 	if sum != rep.Options.Terms {
 		t.Errorf("term picks sum to %d, want %d draws", sum, rep.Options.Terms)
 	}
-	f := rep.Figures
+	f := rep.Figures.Joint
 	// captured = 1 − e², to the 6 significant digits printed.
 	if d := f.Captured - (1 - f.RelErr*f.RelErr); d > 1e-5 || d < -1e-5 {
 		t.Errorf("captured %g vs 1−e² = %g", f.Captured, 1-f.RelErr*f.RelErr)
 	}
+	// With r = c = k the CUR has rank at most k, so by Eckart–Young it
+	// cannot beat the rank-k SVD: ρ ≥ 1 and η ≤ 1 (to the printed digits).
 	if f.Ratio == nil || *f.Ratio < 1-1e-5 {
-		t.Errorf("ratio %v: a CUR of rank ≤ k cannot beat the rank-k SVD (Eckart–Young)", f.Ratio)
+		t.Errorf("ratio %v below 1", f.Ratio)
 	}
-	if len(f.Values) != rep.Options.Rank {
-		t.Errorf("%d singular values for rank %d", len(f.Values), rep.Options.Rank)
+	if f.Eta == nil || *f.Eta > 1+1e-5 {
+		t.Errorf("η %v above 1", f.Eta)
+	}
+	d := rep.Figures.Documents
+	if d.Eta == nil || *d.Eta > 1+1e-5 || d.Captured > d.BestCaptured+1e-6 {
+		t.Errorf("documents: captured %g, best %g, η %v: the span of r rows cannot beat the best r-dimensional one", d.Captured, d.BestCaptured, d.Eta)
+	}
+	if len(rep.Figures.Values) != max(rep.Options.Rank, d.Count) {
+		t.Errorf("%d singular values for rank %d and %d documents", len(rep.Figures.Values), rep.Options.Rank, d.Count)
 	}
 	if !strings.Contains(rep.Caution, "does not replace the review") {
 		t.Errorf("caution missing: %q", rep.Caution)
@@ -204,7 +237,9 @@ func TestBadInputListedAndSkipped(t *testing.T) {
 	var out, errb bytes.Buffer
 	app := &App{Out: &out, Err: &errb, Version: "test"}
 
-	opts, err := (&pickFlags{format: "json", method: "norm", docs: 3, terms: 5, minDF: -1, maxDF: 0.5, tf: "log", idf: "smooth", norm: "l2", maxBytes: 1 << 20, minLen: 2, power: 2}).options("fixture")
+	f := defaultFlags(t)
+	f.format, f.docs, f.terms = "json", 3, 5
+	opts, err := f.options("fixture")
 
 	if err != nil {
 		t.Fatal(err)
@@ -307,7 +342,8 @@ func TestDegenerateCorpora(t *testing.T) {
 		if code != exitOK {
 			t.Fatalf("exit %d: %s", code, stderr)
 		}
-		if !strings.Contains(stderr, "numerical rank") || !strings.Contains(stderr, "ratio is undefined") {
+		// Three copies collapse to one distinct document (rank 1).
+		if !strings.Contains(stderr, "lowered to 1") || !strings.Contains(stderr, "ratio is undefined") {
 			t.Errorf("warnings missing: %q", stderr)
 		}
 		if strings.Contains(out, "NaN") || strings.Contains(out, "Inf") {

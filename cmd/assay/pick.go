@@ -7,11 +7,13 @@ import (
 	"os"
 	"strconv"
 	"strings"
+	"time"
 
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
 	"assay/corpus"
+	selection "assay/select"
 	"assay/sparsemat"
 )
 
@@ -23,7 +25,8 @@ const (
 	defaultMaxDF    = 0.5
 	minDFThreshold  = 20 // corpora of at least this many documents get min-df 2
 	defaultFormat   = "text"
-	defaultMethod   = "norm"
+	defaultMethod   = "greedy"
+	defaultCore     = "optimal"
 	cautionSampling = "Sampling supports review; it does not replace the review that law, policy or a licensed professional requires."
 )
 
@@ -44,11 +47,22 @@ type pickOptions struct {
 	Numbers  bool
 	NoStem   bool
 	Power    int
+	Core     string
+	// TruncateCore truncates the optimal core to rank k.
+	TruncateCore bool
+	Accuracy     float64 // 0: not given
+	TargetShare  float64 // 0: not given
+	// Timings adds wall-clock timings to the report (which then differs
+	// from run to run).
+	Timings bool
 }
 
 // pickFlags holds the raw flag values before validation.
 type pickFlags struct {
 	format, method, tf, idf, norm string
+	core                          string
+	truncate, timings             bool
+	accuracy, target              float64
 	docs, terms, rank, minDF      int
 	minLen, power                 int
 	seed                          uint64
@@ -59,11 +73,28 @@ type pickFlags struct {
 
 func (f *pickFlags) register(fl *pflag.FlagSet) {
 	fl.StringVar(&f.format, "format", defaultFormat, "output format: text or json")
-	fl.StringVar(&f.method, "method", defaultMethod, "selection method: norm (squared-norm sampling)")
+	f.registerSelection(fl)
+	f.registerAnalysis(fl)
+}
+
+// registerSelection registers the flags that choose and size the picks.
+func (f *pickFlags) registerSelection(fl *pflag.FlagSet) {
+	fl.StringVar(&f.method, "method", defaultMethod, "selection method: greedy, pivot, top, leverage, norm (see the README)")
+	fl.StringVar(&f.core, "core", defaultCore, "core U: optimal (C⁺AR⁺) or intersection (W⁺)")
+	fl.BoolVar(&f.truncate, "truncate-core", false, "truncate the optimal core to rank k, so that C·U·R has rank at most k")
+	fl.Float64Var(&f.accuracy, "accuracy", 0, "set the draws to c = r = ⌈k·ln k/ε²⌉ for this ε (overrides --docs and --terms)")
+	fl.Float64Var(&f.target, "target-share", 0, "find the smallest number of documents whose picks span this share of the corpus, in (0, 1] (overrides --docs)")
 	fl.IntVar(&f.docs, "docs", defaultDocs, "number r of document draws (exemplars)")
 	fl.IntVar(&f.terms, "terms", defaultTerms, "number c of term draws (key terms)")
 	fl.IntVar(&f.rank, "rank", 0, "target rank k of the reference SVD (default min(docs, terms), lowered to the matrix's rank)")
 	fl.Uint64Var(&f.seed, "seed", defaultSeed, "random seed; the same seed gives the same picks")
+	fl.IntVar(&f.power, "power-iters", sparsemat.DefaultPowerIters, "power iterations of the randomized SVD")
+	fl.BoolVar(&f.timings, "timings", false, "add wall-clock timings of each stage to the report (the output then differs from run to run)")
+}
+
+// registerAnalysis registers the flags that decide how files become the
+// matrix.
+func (f *pickFlags) registerAnalysis(fl *pflag.FlagSet) {
 	fl.IntVar(&f.minDF, "min-df", -1, "keep terms found in at least this many documents (default 2 with 20 or more documents, else 1)")
 	fl.Float64Var(&f.maxDF, "max-df", defaultMaxDF, "keep terms found in at most this share of the documents, in (0, 1]")
 	fl.StringVar(&f.tf, "tf", string(sparsemat.TFLog), "term-frequency weight: log (1+ln tf), raw, binary")
@@ -73,7 +104,6 @@ func (f *pickFlags) register(fl *pflag.FlagSet) {
 	fl.IntVar(&f.minLen, "min-length", 2, "shortest token kept, in characters")
 	fl.BoolVar(&f.numbers, "keep-numbers", false, "keep tokens made only of digits")
 	fl.BoolVar(&f.noStem, "no-stem", false, "do not stem: every word is its own term")
-	fl.IntVar(&f.power, "power-iters", sparsemat.DefaultPowerIters, "power iterations of the randomized SVD")
 }
 
 // options validates the flags; any error is a usage error.
@@ -83,13 +113,24 @@ func (f *pickFlags) options(source string) (pickOptions, error) {
 		Docs: f.docs, Terms: f.terms, Rank: f.rank, Seed: f.seed,
 		MinDF: f.minDF, MaxDF: f.maxDF, MaxBytes: f.maxBytes,
 		MinLen: f.minLen, Numbers: f.numbers, NoStem: f.noStem, Power: f.power,
+		Core: f.core, TruncateCore: f.truncate, Accuracy: f.accuracy, TargetShare: f.target, Timings: f.timings,
 		Weight: sparsemat.Weighting{TF: sparsemat.TF(f.tf), IDF: sparsemat.IDF(f.idf), Norm: sparsemat.Norm(f.norm)},
 	}
 	switch {
 	case o.Format != "text" && o.Format != "json":
 		return o, usagef("unknown --format %q (allowed: text, json)", o.Format)
-	case o.Method != "norm":
-		return o, usagef("unknown --method %q (allowed: norm)", o.Method)
+	case !validMethod(o.Method):
+		return o, usagef("unknown --method %q (allowed: %s)", o.Method, methodList())
+	case o.Core != "optimal" && o.Core != "intersection":
+		return o, usagef("unknown --core %q (allowed: optimal, intersection)", o.Core)
+	case o.TruncateCore && o.Core != "optimal":
+		return o, usagef("--truncate-core needs --core optimal")
+	case o.Accuracy < 0 || o.Accuracy > 1:
+		return o, usagef("--accuracy must lie in (0, 1] (got %g)", o.Accuracy)
+	case o.TargetShare < 0 || o.TargetShare > 1:
+		return o, usagef("--target-share must lie in (0, 1] (got %g)", o.TargetShare)
+	case o.Accuracy > 0 && o.TargetShare > 0:
+		return o, usagef("--accuracy and --target-share cannot be combined")
 	case o.Docs < 1:
 		return o, usagef("--docs must be at least 1 (got %d)", o.Docs)
 	case o.Terms < 1:
@@ -175,13 +216,18 @@ func openFolder(dir string) (fs.FS, error) {
 
 // runPick reads the corpus, picks and writes the report.
 func runPick(ctx context.Context, app *App, fsys fs.FS, opts pickOptions) error {
+	start := time.Now()
 	an, err := analyze(ctx, fsys, opts)
 	if err != nil {
 		return err
 	}
+	read := time.Since(start)
 	rep, err := pick(an, opts, app.Version)
 	if err != nil {
 		return err
+	}
+	if rep.Timings != nil {
+		rep.Timings.Read = seconds(read)
 	}
 	for _, w := range rep.Warnings {
 		fmt.Fprintf(app.Err, "assay: warning: %s\n", w)
@@ -194,6 +240,23 @@ func runPick(ctx context.Context, app *App, fsys fs.FS, opts pickOptions) error 
 	}
 }
 
+func validMethod(m string) bool {
+	for _, x := range selection.Methods {
+		if string(x) == m {
+			return true
+		}
+	}
+	return false
+}
+
+func methodList() string {
+	var names []string
+	for _, x := range selection.Methods {
+		names = append(names, string(x))
+	}
+	return strings.Join(names, ", ")
+}
+
 // command gives the command line that repeats a run.
 func (o pickOptions) command(demo bool) string {
 	var b strings.Builder
@@ -202,7 +265,16 @@ func (o pickOptions) command(demo bool) string {
 	} else {
 		b.WriteString("assay pick " + quoteArg(o.Source))
 	}
-	fmt.Fprintf(&b, " --method %s --docs %d --terms %d --rank %d --seed %d", o.Method, o.Docs, o.Terms, o.Rank, o.Seed)
+	fmt.Fprintf(&b, " --method %s --core %s --docs %d --terms %d --rank %d --seed %d", o.Method, o.Core, o.Docs, o.Terms, o.Rank, o.Seed)
+	if o.TruncateCore {
+		b.WriteString(" --truncate-core")
+	}
+	if o.Accuracy > 0 {
+		fmt.Fprintf(&b, " --accuracy %s", strconv.FormatFloat(o.Accuracy, 'g', -1, 64))
+	}
+	if o.TargetShare > 0 {
+		fmt.Fprintf(&b, " --target-share %s", strconv.FormatFloat(o.TargetShare, 'g', -1, 64))
+	}
 	fmt.Fprintf(&b, " --min-df %d --max-df %s --tf %s --idf %s --norm %s", o.MinDF, strconv.FormatFloat(o.MaxDF, 'g', -1, 64), o.Weight.TF, o.Weight.IDF, o.Weight.Norm)
 	fmt.Fprintf(&b, " --max-bytes %d --min-length %d --power-iters %d", o.MaxBytes, o.MinLen, o.Power)
 	if o.Numbers {

@@ -35,37 +35,70 @@ func writeText(w io.Writer, rep *Report) error {
 		fmt.Fprintf(bw, "        %d documents had invalid UTF-8 repaired\n", in.RepairedDocs)
 	}
 	fmt.Fprintf(bw, "Input fingerprint: %s\n", in.Fingerprint)
-	fmt.Fprintf(bw, "Method: %s, seed %d, %d document draws, %d term draws, rank k = %d\n\n",
-		methodLabel(rep.Options.Method), rep.Options.Seed, rep.Options.Docs, rep.Options.Terms, f.Rank)
+	if in.Distinct < in.DocumentsUsed {
+		fmt.Fprintf(bw, "        %d exact duplicates merged before picking (%d distinct documents)\n", in.DocumentsUsed-in.Distinct, in.Distinct)
+	}
+	fmt.Fprintf(bw, "Method: %s, core %s, seed %d, %d documents and %d terms asked for, rank k = %d\n\n",
+		methodLabel(rep.Options.Method), rep.Options.Core, rep.Options.Seed, rep.Options.Docs, rep.Options.Terms, f.Rank)
 
-	fmt.Fprintf(bw, "Exemplar documents (%d distinct of %d draws)\n", len(rep.Exemplars), rep.Options.Docs)
+	sampled := rep.Options.Method == "norm" || rep.Options.Method == "leverage"
+	fmt.Fprintf(bw, "Exemplar documents (%d)\n", len(rep.Exemplars))
 	tw := tabwriter.NewWriter(bw, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(tw, "  #\tpicks\tweight\tdocument\ttitle")
+	if sampled {
+		fmt.Fprintln(tw, "  #\tpicks\tweight\tdocument\ttitle")
+	} else {
+		fmt.Fprintln(tw, "  #\tscore\tdocument\ttitle")
+	}
 	for i, e := range rep.Exemplars {
-		fmt.Fprintf(tw, "  %d\t%d\t%.4f\t%s\t%s\n", i+1, e.Picks, float64(e.Weight), e.ID, ellipsis(e.Title, maxTitleColumn))
+		if sampled {
+			fmt.Fprintf(tw, "  %d\t%d\t%.4f\t%s\t%s\n", i+1, e.Picks, float64(e.Weight), e.ID, ellipsis(e.Title, maxTitleColumn))
+		} else {
+			fmt.Fprintf(tw, "  %d\t%.4f\t%s\t%s\n", i+1, float64(e.Score), e.ID, ellipsis(e.Title, maxTitleColumn))
+		}
+		for _, dup := range e.Duplicates {
+			fmt.Fprintf(tw, "  \t\t\t↳ same text: %s\n", dup)
+		}
 	}
 	tw.Flush()
 
-	fmt.Fprintf(bw, "\nKey terms (%d distinct of %d draws)\n", len(rep.Terms), rep.Options.Terms)
+	fmt.Fprintf(bw, "\nKey terms (%d)\n", len(rep.Terms))
 	tw = tabwriter.NewWriter(bw, 0, 0, 2, ' ', 0)
-	fmt.Fprintln(tw, "  #\tpicks\tweight\tterm\tstem\tdocuments")
+	if sampled {
+		fmt.Fprintln(tw, "  #\tpicks\tweight\tterm\tstem\tdocuments")
+	} else {
+		fmt.Fprintln(tw, "  #\tscore\tterm\tstem\tdocuments")
+	}
 	for i, t := range rep.Terms {
-		fmt.Fprintf(tw, "  %d\t%d\t%.4f\t%s\t%s\t%d\n", i+1, t.Picks, float64(t.Weight), t.Term, t.Stem, t.DF)
+		if sampled {
+			fmt.Fprintf(tw, "  %d\t%d\t%.4f\t%s\t%s\t%d\n", i+1, t.Picks, float64(t.Weight), t.Term, t.Stem, t.DF)
+		} else {
+			fmt.Fprintf(tw, "  %d\t%.4f\t%s\t%s\t%d\n", i+1, float64(t.Score), t.Term, t.Stem, t.DF)
+		}
 	}
 	tw.Flush()
 
-	fmt.Fprintf(bw, "\nHow much of the corpus the picks reconstruct (‖A‖_F = %.4f)\n", float64(f.FrobeniusNorm))
+	d, j := f.Documents, f.Joint
+	fmt.Fprintf(bw, "\nHow much of the corpus the picks account for (‖A‖_F = %.4f)\n", float64(f.FrobeniusNorm))
+	fmt.Fprintf(bw, "  These %d documents span %s of the corpus; the best any %d-dimensional summary could span is %s", d.Count, percent(float64(d.Captured)), d.Count, percent(float64(d.BestCaptured)))
+	if d.Eta != nil {
+		fmt.Fprintf(bw, " (η_docs = %.3f)", float64(*d.Eta))
+	}
+	fmt.Fprintln(bw, ".")
 	tw = tabwriter.NewWriter(bw, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "  \trelative error\tshare captured")
-	fmt.Fprintf(tw, "  picks, C·U·R\t%.4f\t%s\n", float64(f.RelativeError), percent(float64(f.Captured)))
-	fmt.Fprintf(tw, "  best rank-%d (SVD)\t%.4f\t%s\n", f.Rank, float64(f.BestRelativeError), percent(float64(f.BestCaptured)))
+	fmt.Fprintf(tw, "  documents and terms, C·U·R\t%.4f\t%s\n", float64(j.RelativeError), percent(float64(j.Captured)))
+	fmt.Fprintf(tw, "  best rank-%d (SVD)\t%.4f\t%s\n", f.Rank, float64(j.BestRelativeError), percent(float64(j.BestCaptured)))
 	tw.Flush()
-	if f.Ratio != nil {
-		fmt.Fprintf(bw, "  error ratio ‖A−CUR‖/‖A−A_k‖ = %.4f (1 would match the best rank-%d summary)\n", float64(*f.Ratio), f.Rank)
-	} else {
-		fmt.Fprintf(bw, "  error ratio undefined: the rank-%d approximation is exact\n", f.Rank)
+	if j.Eta != nil {
+		fmt.Fprintf(bw, "  η = %.3f of the best rank-%d share", float64(*j.Eta), f.Rank)
 	}
-	fmt.Fprintf(bw, "  core U: rank %d; reference SVD: %s\n", f.CoreRank, f.SVD)
+	if j.Ratio != nil {
+		fmt.Fprintf(bw, "; error ratio ‖A−CUR‖/‖A−A_k‖ = %.4f", float64(*j.Ratio))
+	} else {
+		fmt.Fprintf(bw, "; error ratio undefined: the rank-%d approximation is exact", f.Rank)
+	}
+	fmt.Fprintln(bw)
+	fmt.Fprintf(bw, "  core U: %s, rank %d; reference SVD: %s\n", rep.Options.Core, f.CoreRank, f.SVD)
 
 	if len(rep.Skipped) > 0 {
 		fmt.Fprintf(bw, "\nSkipped files (%d)\n", len(rep.Skipped))
@@ -74,6 +107,10 @@ func writeText(w io.Writer, rep *Report) error {
 			fmt.Fprintf(tw, "  %s\t%s\n", s.Path, s.Reason)
 		}
 		tw.Flush()
+	}
+	if t := rep.Timings; t != nil {
+		fmt.Fprintf(bw, "\nTimings: read %.3f s, reference SVD %.3f s, select %.3f s, measure %.3f s (one randomized rank-%d SVD: %.3f s)\n",
+			float64(t.Read), float64(t.SVD), float64(t.Select), float64(t.Measure), f.Rank, float64(t.RandomizedSVD))
 	}
 	fmt.Fprintf(bw, "\nTo repeat: %s\n", rep.Repeat)
 	fmt.Fprintf(bw, "%s\n", rep.Caution)
@@ -86,7 +123,15 @@ func writeText(w io.Writer, rep *Report) error {
 func methodLabel(m string) string {
 	switch m {
 	case "norm":
-		return "norm (squared-norm sampling with replacement, U = W⁺)"
+		return "norm (squared-norm sampling with replacement)"
+	case "leverage":
+		return "leverage (rank-k leverage-score sampling with replacement)"
+	case "top":
+		return "top (largest rank-k leverage scores)"
+	case "pivot":
+		return "pivot (sketch, then LU with partial pivoting)"
+	case "greedy":
+		return "greedy (each pick adds the most to the captured share)"
 	}
 	return m
 }

@@ -3,14 +3,21 @@ package main
 import (
 	"fmt"
 	"math"
+	"runtime/debug"
 	"sort"
+	"time"
+
+	"github.com/james-bowman/sparse"
 
 	selection "assay/select"
 	"assay/sparsemat"
 )
 
+// numericGCPercent is the collector's GOGC during the numerical phase.
+const numericGCPercent = 20
+
 // reportSchema versions the JSON report; bump it on any change of fields.
-const reportSchema = "assay.pick/1"
+const reportSchema = "assay.pick/2"
 
 // Report is everything a pick run found, in the order it is printed. The
 // JSON form is documented field by field in the README.
@@ -24,6 +31,7 @@ type Report struct {
 	Figures   figuresOut    `json:"figures"`
 	Skipped   []skipOut     `json:"skipped"`
 	Warnings  []string      `json:"warnings"`
+	Timings   *timingsOut   `json:"timings,omitempty"`
 	Repeat    string        `json:"repeat"`
 	Caution   string        `json:"caution"`
 }
@@ -38,6 +46,7 @@ type inputInfo struct {
 	Fingerprint    string `json:"fingerprint"`
 	DocumentsRead  int    `json:"documents_read"`
 	DocumentsUsed  int    `json:"documents_used"`
+	Distinct       int    `json:"documents_distinct"`
 	FilesSkipped   int    `json:"files_skipped"`
 	RepairedDocs   int    `json:"documents_repaired"`
 	Vocabulary     int    `json:"vocabulary"`
@@ -48,52 +57,83 @@ type inputInfo struct {
 }
 
 type optionsInfo struct {
-	Method     string  `json:"method"`
-	Seed       uint64  `json:"seed"`
-	Docs       int     `json:"docs"`
-	Terms      int     `json:"terms"`
-	Rank       int     `json:"rank"`
-	MinDF      int     `json:"min_df"`
-	MaxDF      float64 `json:"max_df"`
-	TF         string  `json:"tf"`
-	IDF        string  `json:"idf"`
-	Norm       string  `json:"norm"`
-	MaxBytes   int64   `json:"max_bytes"`
-	MinLength  int     `json:"min_length"`
-	Numbers    bool    `json:"keep_numbers"`
-	Stemming   bool    `json:"stemming"`
-	PowerIters int     `json:"power_iters"`
+	Method       string   `json:"method"`
+	Core         string   `json:"core"`
+	TruncateCore bool     `json:"truncate_core"`
+	Seed         uint64   `json:"seed"`
+	Docs         int      `json:"docs"`
+	Terms        int      `json:"terms"`
+	Rank         int      `json:"rank"`
+	Accuracy     *float64 `json:"accuracy"`
+	TargetShare  *float64 `json:"target_share"`
+	MinDF        int      `json:"min_df"`
+	MaxDF        float64  `json:"max_df"`
+	TF           string   `json:"tf"`
+	IDF          string   `json:"idf"`
+	Norm         string   `json:"norm"`
+	MaxBytes     int64    `json:"max_bytes"`
+	MinLength    int      `json:"min_length"`
+	Numbers      bool     `json:"keep_numbers"`
+	Stemming     bool     `json:"stemming"`
+	PowerIters   int      `json:"power_iters"`
 }
 
 type exemplarOut struct {
-	ID          string `json:"id"`
-	Title       string `json:"title"`
-	Picks       int    `json:"picks"`
-	Weight      num    `json:"weight"`
-	Probability num    `json:"probability"`
+	ID         string   `json:"id"`
+	Title      string   `json:"title"`
+	Picks      int      `json:"picks"`
+	Weight     num      `json:"weight"`
+	Score      num      `json:"score"`
+	Duplicates []string `json:"duplicates"`
 }
 
 type termOut struct {
-	Term        string `json:"term"`
-	Stem        string `json:"stem"`
-	DF          int    `json:"df"`
-	Picks       int    `json:"picks"`
-	Weight      num    `json:"weight"`
-	Probability num    `json:"probability"`
+	Term   string `json:"term"`
+	Stem   string `json:"stem"`
+	DF     int    `json:"df"`
+	Picks  int    `json:"picks"`
+	Weight num    `json:"weight"`
+	Score  num    `json:"score"`
 }
 
 type figuresOut struct {
-	Rank              int    `json:"rank"`
-	FrobeniusNorm     num    `json:"frobenius_norm"`
-	RelativeError     num    `json:"relative_error"`
-	Captured          num    `json:"captured"`
-	BestRelativeError num    `json:"best_relative_error"`
-	BestCaptured      num    `json:"best_captured"`
-	Ratio             *num   `json:"ratio"`
-	CoreRank          int    `json:"core_rank"`
-	SingularValues    []num  `json:"singular_values"`
-	SVD               string `json:"svd"`
+	Rank           int        `json:"rank"`
+	FrobeniusNorm  num        `json:"frobenius_norm"`
+	Documents      docsFigure `json:"documents"`
+	Joint          jointFig   `json:"joint"`
+	CoreRank       int        `json:"core_rank"`
+	SingularValues []num      `json:"singular_values"`
+	SVD            string     `json:"svd"`
 }
+
+type docsFigure struct {
+	Count        int  `json:"count"`
+	Captured     num  `json:"captured"`
+	BestCaptured num  `json:"best_captured"`
+	Eta          *num `json:"eta"`
+}
+
+type jointFig struct {
+	RelativeError     num  `json:"relative_error"`
+	Captured          num  `json:"captured"`
+	BestRelativeError num  `json:"best_relative_error"`
+	BestCaptured      num  `json:"best_captured"`
+	Ratio             *num `json:"ratio"`
+	Eta               *num `json:"eta"`
+}
+
+// timingsOut holds wall-clock seconds of each stage, with --timings only.
+type timingsOut struct {
+	Read    num `json:"read"`
+	SVD     num `json:"svd"`
+	Select  num `json:"select"`
+	Measure num `json:"measure"`
+	// RandomizedSVD is one randomized SVD of rank k (q power iterations),
+	// timed for comparison whatever SVD the run used.
+	RandomizedSVD num `json:"randomized_svd_rank_k"`
+}
+
+func seconds(d time.Duration) num { return num(d.Seconds()) }
 
 type skipOut struct {
 	Path   string `json:"path"`
@@ -114,46 +154,105 @@ func (n num) MarshalJSON() ([]byte, error) {
 
 // pick runs the selection on an analysed corpus and builds the report.
 func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
-	a := sparsemat.Weight(an.counts, opts.Weight)
-	at := sparsemat.Transpose(a)
-	m, n := a.Dims()
+	// The numerical phase allocates few, large, pointer-free blocks, which
+	// the collector frees cheaply; collecting sooner keeps the peak down
+	// (bench/scale, 100,000×50,000: peak resident 476 MiB at the default
+	// GOGC of 100, 453 MiB at 20, with no measurable change in time).
+	defer debug.SetGCPercent(debug.SetGCPercent(numericGCPercent))
+	full := sparsemat.Weight(an.counts, opts.Weight)
+	m, n := full.Dims()
 	rep := &Report{Schema: reportSchema, Tool: toolInfo{Name: "assay", Version: version}, Caution: cautionSampling, Warnings: []string{}}
-	normSq := sparsemat.FrobeniusSq(a)
-	if normSq == 0 {
-		return nil, fmt.Errorf("%s: every weight is zero (with --idf plain, a term in every document weighs zero only when m = df; check the weighting)", opts.Source)
+	if sparsemat.FrobeniusSq(full) == 0 {
+		return nil, fmt.Errorf("%s: every weight is zero; check the weighting options", opts.Source)
+	}
+	// Exact duplicates are merged before selection (figures are unchanged:
+	// see sparsemat.CollapseRows), so no two picks are the same text.
+	a, groups := sparsemat.CollapseRows(full)
+	md, _ := a.Dims()
+	survivor := func(row int) int { return row }
+	if groups != nil {
+		survivor = func(row int) int { return groups[row][0] }
 	}
 
 	k := opts.Rank
 	if k == 0 {
 		k = min(opts.Docs, opts.Terms)
 	}
-	if lim := min(m, n); k > lim {
-		rep.Warnings = append(rep.Warnings, fmt.Sprintf("rank %d lowered to %d, the smaller side of the %d×%d matrix", k, lim, m, n))
+	docs, terms := opts.Docs, opts.Terms
+	if opts.Accuracy > 0 {
+		// c = r = ⌈k·ln k/ε²⌉, capped by the matrix.
+		c := int(math.Ceil(float64(k) * math.Log(float64(max(k, 2))) / (opts.Accuracy * opts.Accuracy)))
+		docs, terms = min(c, md), min(c, n)
+		rep.Warnings = append(rep.Warnings, fmt.Sprintf("--accuracy %g sets %d document and %d term picks (⌈k·ln k/ε²⌉ = %d, capped by the matrix)", opts.Accuracy, docs, terms, c))
+	}
+	if lim := min(md, n); k > lim {
+		rep.Warnings = append(rep.Warnings, fmt.Sprintf("rank %d lowered to %d, the smaller side of the %d×%d matrix of distinct documents", k, lim, md, n))
 		k = lim
 	}
-	svd, err := sparsemat.TruncatedSVD(a, at, sparsemat.SVDOptions{Rank: k, PowerIters: opts.Power, Seed: opts.Seed})
-	if err != nil {
-		return nil, fmt.Errorf("rank-%d reference: %w", k, err)
+	svdRank := min(selection.ReferenceRank(k, docs, terms), md, n)
+	if opts.TargetShare > 0 {
+		svdRank = min(md, n, max(svdRank, 2*svdRank)) // room for the search below
 	}
-	numRank := numericalRank(svd.Values, m, n)
+	tSVD := time.Now()
+	svd, err := sparsemat.TruncatedSVD(a, sparsemat.SVDOptions{Rank: svdRank, PowerIters: opts.Power, Seed: opts.Seed})
+	if err != nil {
+		return nil, fmt.Errorf("reference SVD: %w", err)
+	}
+	svdTime := time.Since(tSVD)
+	numRank := numericalRank(svd.Values, md, n)
 	if numRank < k {
 		rep.Warnings = append(rep.Warnings, fmt.Sprintf("rank %d lowered to %d, the numerical rank of the matrix", k, numRank))
-		k = numRank
+		k = max(numRank, 1)
 	}
 
-	cur, err := selection.SquaredNorm(a, selection.Options{Rows: opts.Docs, Cols: opts.Terms, Seed: opts.Seed})
+	selOpts := selection.Options{
+		Method: selection.Method(opts.Method), Rows: docs, Cols: terms, Rank: k, Seed: opts.Seed,
+		Core: selection.Core(opts.Core), SVD: svd, PowerIters: 1,
+	}
+	if opts.TruncateCore {
+		selOpts.CoreRank = k
+	}
+	if opts.TargetShare > 0 {
+		r, err := smallestDocs(a, selOpts, opts.TargetShare)
+		if err != nil {
+			return nil, err
+		}
+		if r < 0 {
+			rep.Warnings = append(rep.Warnings, fmt.Sprintf("no number of documents up to %d reaches the target share %g with method %s; showing %d", md, opts.TargetShare, opts.Method, md))
+			r = md
+		}
+		selOpts.Rows, docs = r, r
+		if need := min(max(k, r, terms), md, n); need > len(svd.Values) {
+			svd, err = sparsemat.TruncatedSVD(a, sparsemat.SVDOptions{Rank: need, PowerIters: opts.Power, Seed: opts.Seed})
+			if err != nil {
+				return nil, fmt.Errorf("reference SVD: %w", err)
+			}
+			selOpts.SVD = svd
+		}
+	}
+	tSelect := time.Now()
+	cur, err := selection.Select(a, selOpts)
 	if err != nil {
 		return nil, fmt.Errorf("pick: %w", err)
 	}
-	errSq := selection.ErrorSq(a, cur)
-	fig := selection.NewFigures(normSq, errSq, svd.Values, k)
+	selectTime := time.Since(tSelect)
+	tMeasure := time.Now()
+	q := selection.Measure(a, cur, svd, k)
+	if opts.Timings {
+		rep.Timings = &timingsOut{SVD: seconds(svdTime), Select: seconds(selectTime), Measure: seconds(time.Since(tMeasure))}
+		tRand := time.Now()
+		if _, err := sparsemat.TruncatedSVD(a, sparsemat.SVDOptions{Rank: k, PowerIters: opts.Power, Seed: opts.Seed, Randomized: true}); err == nil {
+			rep.Timings.RandomizedSVD = seconds(time.Since(tRand))
+		}
+	}
 
 	resolved := opts
 	resolved.Rank = k
 	resolved.MinDF = an.minDF
 	rep.Repeat = resolved.command(opts.Source == demoSource)
 	rep.Options = optionsInfo{
-		Method: opts.Method, Seed: opts.Seed, Docs: opts.Docs, Terms: opts.Terms, Rank: k,
+		Method: opts.Method, Core: opts.Core, TruncateCore: opts.TruncateCore, Seed: opts.Seed, Docs: docs, Terms: terms, Rank: k,
+		Accuracy: optFloat(opts.Accuracy), TargetShare: optFloat(opts.TargetShare),
 		MinDF: an.minDF, MaxDF: opts.MaxDF, TF: string(opts.Weight.TF), IDF: string(opts.Weight.IDF), Norm: string(opts.Weight.Norm),
 		MaxBytes: opts.MaxBytes, MinLength: opts.MinLen, Numbers: opts.Numbers, Stemming: !opts.NoStem, PowerIters: opts.Power,
 	}
@@ -165,43 +264,109 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 	}
 	rep.Input = inputInfo{
 		Source: opts.Source, Fingerprint: an.fingerprint,
-		DocumentsRead: len(an.docs), DocumentsUsed: m, FilesSkipped: len(an.skips), RepairedDocs: repaired,
-		Vocabulary: an.counts.VocabularySize, TermsKept: n, NonZeros: a.NNZ(),
+		DocumentsRead: len(an.docs), DocumentsUsed: m, Distinct: md, FilesSkipped: len(an.skips), RepairedDocs: repaired,
+		Vocabulary: an.counts.VocabularySize, TermsKept: n, NonZeros: full.NNZ(),
 		NumericalRank: numRank, RankIsComplete: svd.Exact,
 	}
 
 	for _, p := range byPicks(cur.Rows) {
-		d := an.docs[an.counts.Rows[p.Index]]
-		rep.Exemplars = append(rep.Exemplars, exemplarOut{ID: d.ID, Title: d.Title, Picks: p.Count, Weight: num(p.Weight), Probability: num(p.Prob)})
+		d := an.docs[an.counts.Rows[survivor(p.Index)]]
+		e := exemplarOut{ID: d.ID, Title: d.Title, Picks: p.Count, Weight: num(p.Weight), Score: num(p.Score), Duplicates: []string{}}
+		if groups != nil {
+			for _, row := range groups[p.Index][1:] {
+				e.Duplicates = append(e.Duplicates, an.docs[an.counts.Rows[row]].ID)
+			}
+		}
+		rep.Exemplars = append(rep.Exemplars, e)
 	}
 	for _, p := range byPicks(cur.Cols) {
 		stem := an.counts.Terms[p.Index]
-		rep.Terms = append(rep.Terms, termOut{Term: an.display.Form(stem), Stem: stem, DF: an.counts.DF[p.Index], Picks: p.Count, Weight: num(p.Weight), Probability: num(p.Prob)})
+		rep.Terms = append(rep.Terms, termOut{Term: an.display.Form(stem), Stem: stem, DF: an.counts.DF[p.Index], Picks: p.Count, Weight: num(p.Weight), Score: num(p.Score)})
 	}
 
 	rep.Figures = figuresOut{
-		Rank: k, FrobeniusNorm: num(math.Sqrt(normSq)),
-		RelativeError: num(fig.RelErr()), Captured: num(fig.Captured()),
-		BestRelativeError: num(fig.BestRelErr()), BestCaptured: num(fig.BestCaptured()),
+		Rank: k, FrobeniusNorm: num(math.Sqrt(q.NormSq)),
+		Documents: docsFigure{Count: q.DocsCount, Captured: num(q.DocsShare()), BestCaptured: num(q.DocsBestShare())},
+		Joint: jointFig{
+			RelativeError: num(q.RelErr()), Captured: num(q.Captured()),
+			BestRelativeError: num(q.BestRelErr()), BestCaptured: num(q.BestCaptured()),
+		},
 		CoreRank: cur.CoreRank, SVD: svdLabel(svd.Exact, opts.Power),
 	}
-	if r, ok := fig.Ratio(); ok {
-		rn := num(r)
-		rep.Figures.Ratio = &rn
+	if v, ok := q.EtaDocs(); ok {
+		rep.Figures.Documents.Eta = numPtr(v)
+	}
+	if v, ok := q.Ratio(); ok {
+		rep.Figures.Joint.Ratio = numPtr(v)
 	} else {
 		rep.Warnings = append(rep.Warnings, fmt.Sprintf("the rank-%d approximation is exact, so the error ratio is undefined", k))
 	}
-	for _, s := range svd.Values[:k] {
+	if v, ok := q.Eta(); ok {
+		rep.Figures.Joint.Eta = numPtr(v)
+	}
+	for _, s := range svd.Values[:min(max(k, q.DocsCount), len(svd.Values))] {
 		rep.Figures.SingularValues = append(rep.Figures.SingularValues, num(s))
 	}
 
-	skips := append([]skipOut{}, make([]skipOut, 0, len(an.skips))...)
+	skips := make([]skipOut, 0, len(an.skips))
 	for _, s := range an.skips {
 		skips = append(skips, skipOut{Path: s.Path, Reason: s.Reason})
 	}
 	sort.SliceStable(skips, func(i, j int) bool { return skips[i].Path < skips[j].Path })
 	rep.Skipped = skips
 	return rep, nil
+}
+
+// smallestDocs finds the smallest number of documents whose picks capture
+// the target share of the corpus, by bisection over r (it assumes the
+// share grows with r, as it does for the greedy, pivot and top methods up
+// to rounding, and checks the answer it returns). It returns -1 when even
+// every document falls short.
+func smallestDocs(a *sparse.CSR, opts selection.Options, target float64) (int, error) {
+	m, _ := a.Dims()
+	share := func(r int) (float64, error) {
+		o := opts
+		o.Rows = r
+		cur, err := selection.Select(a, o)
+		if err != nil {
+			return 0, err
+		}
+		return selection.RowSpaceSq(a, cur) / sparsemat.FrobeniusSq(a), nil
+	}
+	hi := m
+	s, err := share(hi)
+	if err != nil {
+		return 0, err
+	}
+	if s < target {
+		return -1, nil
+	}
+	lo := 0 // share(lo) < target, share(hi) ≥ target
+	for hi-lo > 1 {
+		mid := (lo + hi) / 2
+		s, err := share(mid)
+		if err != nil {
+			return 0, err
+		}
+		if s >= target {
+			hi = mid
+		} else {
+			lo = mid
+		}
+	}
+	return hi, nil
+}
+
+func numPtr(v float64) *num {
+	n := num(v)
+	return &n
+}
+
+func optFloat(v float64) *float64 {
+	if v <= 0 {
+		return nil
+	}
+	return &v
 }
 
 // numericalRank counts the singular values above max(m, n)·ε·σ₁.
@@ -226,14 +391,15 @@ func svdLabel(exact bool, power int) string {
 	return fmt.Sprintf("randomized, %d power iterations", power)
 }
 
-// byPicks orders picks by draw count, most first, then by index.
+// byPicks orders picks by draw count, most first, then in the order the
+// method chose them.
 func byPicks(p []selection.Pick) []selection.Pick {
 	out := append([]selection.Pick(nil), p...)
 	sort.SliceStable(out, func(i, j int) bool {
 		if out[i].Count != out[j].Count {
 			return out[i].Count > out[j].Count
 		}
-		return out[i].Index < out[j].Index
+		return out[i].Order < out[j].Order
 	})
 	return out
 }

@@ -1,0 +1,143 @@
+package selection
+
+import (
+	"gonum.org/v1/gonum/lapack/lapack64"
+	"gonum.org/v1/gonum/mat"
+)
+
+// epsilon is the spacing of float64 values at 1, 2⁻⁵².
+const epsilon = 0x1p-52
+
+// rangeBasis factors a tall x (rows ≥ columns) as x = Q·diag(s)·Vᵀ over
+// its numerical rank: a Householder QR of x (LAPACK dgeqrf/dorgqr through
+// gonum), then the SVD of the small triangular factor. Q has orthonormal
+// columns spanning the range of x; singular values at or below
+// max(rows, cols)·ε·s₁ are dropped. For a wide x, pass its transpose.
+func rangeBasis(x *mat.Dense) (q *mat.Dense, s []float64, v *mat.Dense) {
+	r, c := x.Dims()
+	if c > r {
+		return wideBasis(x)
+	}
+	qf := mat.DenseCopyOf(x)
+	g := qf.RawMatrix()
+	tau := make([]float64, c)
+	work := make([]float64, 1)
+	lapack64.Geqrf(g, tau, work, -1)
+	work = make([]float64, max(int(work[0]), 1))
+	lapack64.Geqrf(g, tau, work, len(work))
+	tri := mat.NewDense(c, c, nil)
+	for i := range c {
+		for j := i; j < c; j++ {
+			tri.Set(i, j, qf.At(i, j))
+		}
+	}
+	lapack64.Orgqr(g, tau, work, -1)
+	if need := int(work[0]); need > len(work) {
+		work = make([]float64, need)
+	}
+	lapack64.Orgqr(g, tau, work, len(work))
+	var svd mat.SVD
+	if !svd.Factorize(tri, mat.SVDFull) {
+		return mat.NewDense(r, 1, nil), nil, mat.NewDense(c, 1, nil)
+	}
+	sv := svd.Values(nil)
+	rank := 0
+	if len(sv) > 0 && sv[0] > 0 {
+		tol := float64(max(r, c)) * epsilon * sv[0]
+		for _, x := range sv {
+			if x > tol {
+				rank++
+			}
+		}
+	}
+	if rank == 0 {
+		return mat.NewDense(r, 1, nil), nil, mat.NewDense(c, 1, nil)
+	}
+	var u, vf mat.Dense
+	svd.UTo(&u)
+	svd.VTo(&vf)
+	return mulInPlace(qf, u.Slice(0, c, 0, rank).(*mat.Dense)), sv[:rank], mat.DenseCopyOf(vf.Slice(0, c, 0, rank))
+}
+
+// mulInPlace overwrites the first k columns of x (r×l) with x·w for an l×k
+// w, one row at a time, and returns them as an r×k view of x's memory, so
+// that no second block as tall as the corpus is needed.
+func mulInPlace(x, w *mat.Dense) *mat.Dense {
+	r, l := x.Dims()
+	_, k := w.Dims()
+	tmp := mat.NewVecDense(k, nil)
+	for i := range r {
+		row := x.RawRowView(i)
+		tmp.MulVec(w.T(), mat.NewVecDense(l, row))
+		copy(row[:k], tmp.RawVector().Data)
+	}
+	return x.Slice(0, r, 0, k).(*mat.Dense)
+}
+
+// wideBasis is rangeBasis for an x with fewer rows than columns, from the
+// SVD of x itself (small: its rows are few).
+func wideBasis(x *mat.Dense) (q *mat.Dense, s []float64, v *mat.Dense) {
+	r, c := x.Dims()
+	var svd mat.SVD
+	if !svd.Factorize(x, mat.SVDThin) {
+		return mat.NewDense(r, 1, nil), nil, mat.NewDense(c, 1, nil)
+	}
+	sv := svd.Values(nil)
+	rank := 0
+	if len(sv) > 0 && sv[0] > 0 {
+		tol := float64(max(r, c)) * epsilon * sv[0]
+		for _, x := range sv {
+			if x > tol {
+				rank++
+			}
+		}
+	}
+	if rank == 0 {
+		return mat.NewDense(r, 1, nil), nil, mat.NewDense(c, 1, nil)
+	}
+	var u, vf mat.Dense
+	svd.UTo(&u)
+	svd.VTo(&vf)
+	return mat.DenseCopyOf(u.Slice(0, r, 0, rank)), sv[:rank], mat.DenseCopyOf(vf.Slice(0, c, 0, rank))
+}
+
+// Pinv returns the Moore–Penrose pseudo-inverse of w (r×c, giving c×r) and
+// the numerical rank used. Singular values at or below
+// max(r, c)·ε·σ_max (ε = 2⁻⁵²) count as zero. An all-zero or empty w gives
+// a zero matrix and rank 0.
+func Pinv(w *mat.Dense) (*mat.Dense, int) {
+	r, c := w.Dims()
+	out := mat.NewDense(c, r, nil)
+	if r == 0 || c == 0 {
+		return out, 0
+	}
+	var svd mat.SVD
+	if !svd.Factorize(w, mat.SVDThin) {
+		return out, 0 // not reached for finite input; zero is the safe core
+	}
+	s := svd.Values(nil)
+	if len(s) == 0 || s[0] == 0 {
+		return out, 0
+	}
+	tol := float64(max(r, c)) * epsilon * s[0]
+	var u, v mat.Dense
+	svd.UTo(&u) // r×q
+	svd.VTo(&v) // c×q
+	rank := 0
+	for _, x := range s {
+		if x > tol {
+			rank++
+		}
+	}
+	// W⁺ = V_q · diag(1/s) · U_qᵀ over the kept singular values.
+	for i := range c {
+		for j := range r {
+			var sum float64
+			for t := range rank {
+				sum += v.At(i, t) * u.At(j, t) / s[t]
+			}
+			out.Set(i, j, sum)
+		}
+	}
+	return out, rank
+}

@@ -1,0 +1,93 @@
+package sparsemat
+
+import (
+	"hash/maphash"
+	"math"
+	"slices"
+
+	"github.com/james-bowman/sparse"
+)
+
+// CollapseRows merges rows of a that are exactly equal (same columns, same
+// bits). It returns the matrix of distinct rows, in order of first
+// appearance, each scaled by √t where t is the number of copies, and for
+// each of its rows the indices in a of the copies, first copy first.
+//
+// The scaling keeps everything a CUR decomposition measures: if A = P·A'
+// with P the m×m' matrix that holds 1/√t in the copies of each row, then
+// PᵀP = I, so ‖A − P·X‖_F = ‖A' − X‖_F for any X, and A and A' have the
+// same singular values and the same row-space projections.
+//
+// When no two rows are equal it returns a itself and nil groups.
+func CollapseRows(a *sparse.CSR) (*sparse.CSR, [][]int) {
+	raw := a.RawMatrix()
+	m := raw.I
+	seed := maphash.MakeSeed() // only buckets candidates; equality decides
+	buckets := make(map[uint64][]int, m)
+	group := make([]int, m) // row -> index of its group
+	var groups [][]int
+	for i := range m {
+		h := rowHash(seed, raw.Ind[raw.Indptr[i]:raw.Indptr[i+1]], raw.Data[raw.Indptr[i]:raw.Indptr[i+1]])
+		found := -1
+		for _, g := range buckets[h] {
+			if rowsEqual(raw.Indptr, raw.Ind, raw.Data, groups[g][0], i) {
+				found = g
+				break
+			}
+		}
+		if found < 0 {
+			found = len(groups)
+			groups = append(groups, []int{i})
+			buckets[h] = append(buckets[h], found)
+		} else {
+			groups[found] = append(groups[found], i)
+		}
+		group[i] = found
+	}
+	if len(groups) == m {
+		return a, nil
+	}
+	ia := make([]int, 1, len(groups)+1)
+	var ja []int
+	var data []float64
+	for _, g := range groups {
+		i := g[0]
+		scale := math.Sqrt(float64(len(g)))
+		ja = append(ja, raw.Ind[raw.Indptr[i]:raw.Indptr[i+1]]...)
+		for _, v := range raw.Data[raw.Indptr[i]:raw.Indptr[i+1]] {
+			data = append(data, v*scale)
+		}
+		ia = append(ia, len(ja))
+	}
+	return sparse.NewCSR(len(groups), raw.J, ia, ja, data), groups
+}
+
+func rowHash(seed maphash.Seed, ind []int, data []float64) uint64 {
+	var h maphash.Hash
+	h.SetSeed(seed)
+	var buf [8]byte
+	for k, j := range ind {
+		putUint64(buf[:], uint64(j))
+		h.Write(buf[:])
+		putUint64(buf[:], math.Float64bits(data[k]))
+		h.Write(buf[:])
+	}
+	return h.Sum64()
+}
+
+func putUint64(b []byte, v uint64) {
+	for i := range 8 {
+		b[i] = byte(v >> (8 * i))
+	}
+}
+
+func rowsEqual(indptr, ind []int, data []float64, i, j int) bool {
+	a, b := indptr[i], indptr[j]
+	n := indptr[i+1] - a
+	if n != indptr[j+1]-b {
+		return false
+	}
+	return slices.Equal(ind[a:a+n], ind[b:b+n]) && slices.EqualFunc(data[a:a+n], data[b:b+n], func(x, y float64) bool {
+		return math.Float64bits(x) == math.Float64bits(y)
+	})
+}
