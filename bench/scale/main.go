@@ -80,6 +80,7 @@ func main() {
 		q = selection.Measure(a, cur, svd, *k)
 		msrT = append(msrT, time.Since(s).Seconds())
 		totalT = append(totalT, time.Since(start).Seconds())
+		svd, cur = nil, nil // a run of the command line does not overlap the next
 	}
 	peak := rssKB("VmHWM")
 	eta, _ := q.EtaDocs()
