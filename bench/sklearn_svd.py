@@ -90,6 +90,8 @@ def main():
     ap.add_argument("--oversample", type=int, default=10)
     ap.add_argument("--power-iters", type=int, default=2)
     ap.add_argument("--reference-out")
+    ap.add_argument("--omega-out", help="write the Gaussian test matrix randomized_svd(random_state=0) draws, "
+                    "as raw little-endian float64, row-major, shape (cols, rank + oversample)")
     args = ap.parse_args()
 
     blas, info = blas_report()
@@ -123,6 +125,17 @@ def main():
             values = s
         elif not np.array_equal(values, s):
             same = False
+    if args.omega_out:
+        # randomized_svd(random_state=0) makes RandomState(0) and, with no
+        # transpose (rows >= cols), draws its first and only Gaussian block
+        # as random_state.normal(size=(A.shape[1], n_components +
+        # n_oversamples)) in randomized_range_finder (scikit-learn 1.2.1,
+        # sklearn/utils/extmath.py). Drawing the same here gives the same Ω.
+        if a.shape[0] < a.shape[1]:
+            sys.exit("sklearn: --omega-out needs rows >= cols (randomized_svd transposes otherwise)")
+        omega = np.random.RandomState(0).normal(size=(a.shape[1], args.rank + args.oversample))
+        omega.astype("<f8").tofile(args.omega_out)
+        print("sklearn: wrote the test matrix to %s" % args.omega_out)
     med = statistics.median(times)
     threads = max((p.get("num_threads") or 0 for p in info), default=0)
     print("sklearn: median %.3f s of %d runs" % (med, args.runs))

@@ -39,6 +39,11 @@ type SVDOptions struct {
 	// Randomized forces the randomized algorithm even when min(m, n) ≤
 	// ExactLimit (for tests and benchmarks).
 	Randomized bool
+	// TestMatrix, when set, is the n×l test matrix Ω used instead of a
+	// Gaussian one drawn from Seed, and its column count l is the sketch
+	// size (Oversample is then ignored). It lets a comparison with another
+	// implementation start from the identical Ω; it implies Randomized.
+	TestMatrix *mat.Dense
 }
 
 // SVD holds the leading singular triplets of a matrix: A ≈ U·diag(Values)·Vᵀ.
@@ -86,7 +91,7 @@ func TruncatedSVD(a *sparse.CSR, opts SVDOptions) (*SVD, error) {
 	}
 	small := min(m, n)
 	k := min(opts.Rank, small)
-	if small <= ExactLimit && !opts.Randomized {
+	if small <= ExactLimit && !opts.Randomized && opts.TestMatrix == nil {
 		return gramSVD(a, k), nil
 	}
 	p := opts.Oversample
@@ -96,11 +101,21 @@ func TruncatedSVD(a *sparse.CSR, opts SVDOptions) (*SVD, error) {
 	l := min(k+p, small)
 	exact := l == small
 
-	omega := mat.NewDense(n, l, nil)
-	rng := rand.New(rand.NewPCG(opts.Seed, 0x5eed5eed))
-	od := omega.RawMatrix().Data
-	for i := range od {
-		od[i] = rng.NormFloat64()
+	var omega *mat.Dense
+	if opts.TestMatrix != nil {
+		r, c := opts.TestMatrix.Dims()
+		if r != n || c < k || c > small {
+			return nil, fmt.Errorf("test matrix is %d×%d; want %d rows and %d to %d columns", r, c, n, k, small)
+		}
+		omega, l = opts.TestMatrix, c
+		exact = l == small
+	} else {
+		omega = mat.NewDense(n, l, nil)
+		rng := rand.New(rand.NewPCG(opts.Seed, 0x5eed5eed))
+		od := omega.RawMatrix().Data
+		for i := range od {
+			od[i] = rng.NormFloat64()
+		}
 	}
 
 	var y, z mat.Dense

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"os"
+	"slices"
 	"testing"
 
 	"github.com/james-bowman/sparse"
@@ -275,5 +276,37 @@ func TestOrthonormalize(t *testing.T) {
 				t.Fatal("span differs from Householder QR's")
 			}
 		})
+	}
+}
+
+// A given test matrix replaces the Gaussian one: the same Ω gives the same
+// bits, a different Ω (here: scaled columns, same span) the same values to
+// rounding, since the range finder depends only on span(A·Ω); a test
+// matrix of the wrong shape is an error.
+func TestTruncatedSVDTestMatrix(t *testing.T) {
+	a := lowRankPlusNoise(300, 200, 5)
+	omega := randomDense(200, 15, 41)
+	first, err := TruncatedSVD(a, SVDOptions{Rank: 5, PowerIters: 2, TestMatrix: omega})
+	if err != nil {
+		t.Fatal(err)
+	}
+	again, _ := TruncatedSVD(a, SVDOptions{Rank: 5, PowerIters: 2, TestMatrix: omega})
+	if !slices.Equal(first.Values, again.Values) {
+		t.Fatal("the same test matrix gave different values")
+	}
+	scaled := mat.DenseCopyOf(omega)
+	for j := range 15 {
+		for i := range 200 {
+			scaled.Set(i, j, scaled.At(i, j)*float64(j+1))
+		}
+	}
+	other, _ := TruncatedSVD(a, SVDOptions{Rank: 5, PowerIters: 2, TestMatrix: scaled})
+	for i := range 5 {
+		if math.Abs(other.Values[i]-first.Values[i]) > 1e-12*first.Values[0] {
+			t.Errorf("σ_%d: %g vs %g from a test matrix of the same span", i+1, other.Values[i], first.Values[i])
+		}
+	}
+	if _, err := TruncatedSVD(a, SVDOptions{Rank: 5, TestMatrix: randomDense(199, 15, 1)}); err == nil {
+		t.Error("a test matrix with the wrong number of rows gave no error")
 	}
 }

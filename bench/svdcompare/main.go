@@ -23,6 +23,7 @@ package main
 
 import (
 	"bufio"
+	"encoding/binary"
 	"encoding/json"
 	"flag"
 	"fmt"
@@ -58,7 +59,10 @@ type Result struct {
 	MedianSeconds float64   `json:"median_seconds"`
 	SameEveryRun  bool      `json:"same_every_run"`
 	Values        []float64 `json:"values"`
-	Extra         any       `json:"extra,omitempty"`
+	// SharedOmegaValues are the values of one more run from the test
+	// matrix scikit-learn draws (-omega), untimed.
+	SharedOmegaValues []float64 `json:"shared_omega_values,omitempty"`
+	Extra             any       `json:"extra,omitempty"`
 }
 
 func main() {
@@ -81,6 +85,7 @@ func main() {
 	iters := flag.Int("power-iters", 2, "power iterations")
 	svdSeed := flag.Uint64("svd-seed", 0, "seed of the Gaussian test matrix")
 	cpuProfile := flag.String("cpuprofile", "", "write a CPU profile of the timed runs to this file")
+	omegaPath := flag.String("omega", "", "after the timed runs, run once more from this test matrix (raw little-endian float64, n×(rank+oversample), as sklearn_svd.py --omega-out writes it) and record those values as shared_omega_values")
 	flag.Parse()
 	if *mtx == "" || *out == "" || *runs < 1 || flag.NArg() != 0 {
 		fmt.Fprintln(os.Stderr, "usage: svdcompare [flags] -mtx FILE -out FILE | svdcompare compare A.json B.json [REF.json]")
@@ -88,6 +93,7 @@ func main() {
 		os.Exit(2)
 	}
 	opts := sparsemat.SVDOptions{Rank: *rank, Oversample: *over, PowerIters: *iters, Seed: *svdSeed, Randomized: true}
+	sharedOmega = *omegaPath
 	if err := run(*m, *n, *nnz, *seed, *mtx, *out, *runs, opts, *cpuProfile); err != nil {
 		fmt.Fprintln(os.Stderr, "svdcompare:", err)
 		os.Exit(1)
@@ -151,11 +157,45 @@ func run(m, n, nnz int, seed uint64, mtxPath, out string, runs int, opts sparsem
 
 	res.Extra = timeProducts(a, opts.Rank+opts.Oversample, max(runs, 7))
 
+	if sharedOmega != "" {
+		omega, err := readOmega(sharedOmega, n, opts.Rank+opts.Oversample)
+		if err != nil {
+			return err
+		}
+		o := opts
+		o.TestMatrix = omega
+		svd, err := sparsemat.TruncatedSVD(a, o)
+		if err != nil {
+			return err
+		}
+		res.SharedOmegaValues = svd.Values
+		fmt.Printf("assay: values from the shared test matrix %s recorded\n", sharedOmega)
+	}
+
 	b, err := json.MarshalIndent(res, "", "  ")
 	if err != nil {
 		return err
 	}
 	return os.WriteFile(out, append(b, '\n'), 0o644)
+}
+
+// sharedOmega is the -omega flag: a test matrix written by sklearn_svd.py.
+var sharedOmega string
+
+// readOmega reads an r×c matrix of raw little-endian float64, row-major.
+func readOmega(path string, r, c int) (*mat.Dense, error) {
+	b, err := os.ReadFile(path)
+	if err != nil {
+		return nil, err
+	}
+	if len(b) != 8*r*c {
+		return nil, fmt.Errorf("%s holds %d bytes, want %d for %d×%d", path, len(b), 8*r*c, r, c)
+	}
+	d := make([]float64, r*c)
+	for i := range d {
+		d[i] = math.Float64frombits(binary.LittleEndian.Uint64(b[8*i:]))
+	}
+	return mat.NewDense(r, c, d), nil
 }
 
 // Products holds the timings of one Aᵀ·Y product formed two ways.
@@ -337,6 +377,13 @@ func compare(args []string) error {
 	fmt.Printf("max relative difference of the %d singular values: %.3g (σ%d: %.6g vs %.6g)\n", len(a.Values), d, at+1, a.Values[at], b.Values[at])
 	fmt.Printf("σ1: %.10g vs %.10g; σ%d: %.6g vs %.6g\n", a.Values[0], b.Values[0], len(a.Values), a.Values[len(a.Values)-1], b.Values[len(b.Values)-1])
 	fmt.Printf("same values every run: %s %v, %s %v\n", short(a.Tool), a.SameEveryRun, short(b.Tool), b.SameEveryRun)
+	for _, pair := range [][2]*Result{{a, b}, {b, a}} {
+		if shared := pair[0].SharedOmegaValues; len(shared) == len(pair[1].Values) {
+			d, at := maxRelDiff(shared, pair[1].Values)
+			fmt.Printf("from the identical test matrix Ω (%s's run with %s's Ω): max relative difference %.3g (at σ%d)\n",
+				short(pair[0].Tool), short(pair[1].Tool), d, at+1)
+		}
+	}
 	if len(args) == 3 {
 		ref, err := readResult(args[2])
 		if err != nil {
