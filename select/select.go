@@ -54,7 +54,8 @@ type Options struct {
 	CoreRank int
 	// SVD holds leading singular triplets of A: at least Rank of them for
 	// leverage and top; greedy uses all it holds as its proxy. Not needed
-	// by norm and pivot.
+	// by norm and pivot. Select only reads it, and holds no reference to
+	// it once the picks are made.
 	SVD *sparsemat.SVD
 	// PowerIters is the number of power iterations of the pivot sketch.
 	PowerIters int
@@ -143,6 +144,10 @@ func Select(a *sparse.CSR, opts Options) (*CUR, error) {
 	if err != nil {
 		return nil, err
 	}
+	// The singular vectors are not needed past this point; dropping this
+	// reference lets a caller that kept none free them before the core is
+	// built (on a 100,000-document corpus they are as large as C and R).
+	opts.SVD = nil
 	cur := &CUR{Method: opts.Method, Core: opts.Core, Rows: rows, Cols: cols, rowSpace: -1}
 	cur.C = pickedCols(a, cols)
 	cur.R = pickedRows(a, rows)

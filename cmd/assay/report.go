@@ -231,7 +231,13 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 		}
 	}
 	tSelect := time.Now()
-	cur, err := selection.Select(a, selOpts)
+	// Hand Select the only reference to the singular vectors: it drops it
+	// once the picks are made, so they can be freed before the core is
+	// built. The figures need only the values.
+	final := selOpts
+	final.SVD = &sparsemat.SVD{Values: svd.Values, U: svd.U, V: svd.V, Exact: svd.Exact}
+	svd.U, svd.V, selOpts.SVD = nil, nil, nil
+	cur, err := selection.Select(a, final)
 	if err != nil {
 		return nil, fmt.Errorf("pick: %w", err)
 	}
