@@ -55,6 +55,9 @@ type pickOptions struct {
 	// Timings adds wall-clock timings to the report (which then differs
 	// from run to run).
 	Timings bool
+	// CPUProfile and MemProfile name files for pprof profiles (hidden
+	// flags, for profiling on real corpora).
+	CPUProfile, MemProfile string
 }
 
 // pickFlags holds the raw flag values before validation.
@@ -62,6 +65,7 @@ type pickFlags struct {
 	format, method, tf, idf, norm string
 	core                          string
 	truncate, timings             bool
+	cpuProfile, memProfile        string
 	accuracy, target              float64
 	docs, terms, rank, minDF      int
 	minLen, power                 int
@@ -90,6 +94,10 @@ func (f *pickFlags) registerSelection(fl *pflag.FlagSet) {
 	fl.Uint64Var(&f.seed, "seed", defaultSeed, "random seed; the same seed gives the same picks")
 	fl.IntVar(&f.power, "power-iters", sparsemat.DefaultPowerIters, "power iterations of the randomized SVD")
 	fl.BoolVar(&f.timings, "timings", false, "add wall-clock timings of each stage to the report (the output then differs from run to run)")
+	fl.StringVar(&f.cpuProfile, "cpuprofile", "", "write a CPU profile of the run to this file")
+	fl.StringVar(&f.memProfile, "memprofile", "", "write a heap profile at the end of the run to this file")
+	fl.MarkHidden("cpuprofile")
+	fl.MarkHidden("memprofile")
 }
 
 // registerAnalysis registers the flags that decide how files become the
@@ -114,6 +122,7 @@ func (f *pickFlags) options(source string) (pickOptions, error) {
 		MinDF: f.minDF, MaxDF: f.maxDF, MaxBytes: f.maxBytes,
 		MinLen: f.minLen, Numbers: f.numbers, NoStem: f.noStem, Power: f.power,
 		Core: f.core, TruncateCore: f.truncate, Accuracy: f.accuracy, TargetShare: f.target, Timings: f.timings,
+		CPUProfile: f.cpuProfile, MemProfile: f.memProfile,
 		Weight: sparsemat.Weighting{TF: sparsemat.TF(f.tf), IDF: sparsemat.IDF(f.idf), Norm: sparsemat.Norm(f.norm)},
 	}
 	switch {
@@ -216,6 +225,11 @@ func openFolder(dir string) (fs.FS, error) {
 
 // runPick reads the corpus, picks and writes the report.
 func runPick(ctx context.Context, app *App, fsys fs.FS, opts pickOptions) error {
+	stop, err := startProfiles(opts.CPUProfile, opts.MemProfile)
+	if err != nil {
+		return err
+	}
+	defer stop()
 	start := time.Now()
 	an, err := analyze(ctx, fsys, opts)
 	if err != nil {
