@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"os"
+	"runtime"
 	"slices"
 	"testing"
 
@@ -308,5 +309,28 @@ func TestTruncatedSVDTestMatrix(t *testing.T) {
 	}
 	if _, err := TruncatedSVD(a, SVDOptions{Rank: 5, TestMatrix: randomDense(199, 15, 1)}); err == nil {
 		t.Error("a test matrix with the wrong number of rows gave no error")
+	}
+}
+
+// The randomized SVD (parallel products, block-parallel CholeskyQR2) and
+// the exact Gram path give the same bits for GOMAXPROCS 1 and 8.
+func TestTruncatedSVDDeterministic(t *testing.T) {
+	a := randomCSR(9000, 1200, 0.01, 17, -1, -1) // several row blocks of every kernel
+	b := randomCSR(700, 3000, 0.01, 18, -1, -1)  // the exact Gram path
+	prev := runtime.GOMAXPROCS(1)
+	defer runtime.GOMAXPROCS(prev)
+	one, _ := TruncatedSVD(a, SVDOptions{Rank: 20, PowerIters: 2, Seed: 4})
+	oneG, _ := TruncatedSVD(b, SVDOptions{Rank: 20})
+	runtime.GOMAXPROCS(8)
+	eight, _ := TruncatedSVD(a, SVDOptions{Rank: 20, PowerIters: 2, Seed: 4})
+	eightG, _ := TruncatedSVD(b, SVDOptions{Rank: 20})
+	if one.Exact || !oneG.Exact {
+		t.Fatal("wrong paths taken")
+	}
+	if !slices.Equal(one.Values, eight.Values) || !mat.Equal(one.U, eight.U) || !mat.Equal(one.V, eight.V) {
+		t.Error("randomized SVD: GOMAXPROCS 1 and 8 differ")
+	}
+	if !slices.Equal(oneG.Values, eightG.Values) || !mat.Equal(oneG.U, eightG.U) {
+		t.Error("exact SVD: GOMAXPROCS 1 and 8 differ")
 	}
 }

@@ -196,17 +196,19 @@ func TestJSONParsesBack(t *testing.T) {
 func TestDeterministicAcrossGOMAXPROCS(t *testing.T) {
 	prev := runtime.GOMAXPROCS(0)
 	defer runtime.GOMAXPROCS(prev)
-	var first string
-	for _, p := range []int{1, 2, 8} {
-		runtime.GOMAXPROCS(p)
-		code, out, stderr := run(t, "demo", "--format", "json", "--docs", "15", "--terms", "30", "--seed", "5")
-		if code != exitOK {
-			t.Fatalf("GOMAXPROCS %d: exit %d: %s", p, code, stderr)
-		}
-		if first == "" {
-			first = out
-		} else if out != first {
-			t.Fatalf("GOMAXPROCS %d output differs from GOMAXPROCS 1", p)
+	for _, method := range []string{"greedy", "pivot", "top", "leverage", "norm"} {
+		var first string
+		for _, p := range []int{1, 2, 8} {
+			runtime.GOMAXPROCS(p)
+			code, out, stderr := run(t, "demo", "--format", "json", "--method", method, "--docs", "15", "--terms", "30", "--seed", "5")
+			if code != exitOK {
+				t.Fatalf("%s, GOMAXPROCS %d: exit %d: %s", method, p, code, stderr)
+			}
+			if first == "" {
+				first = out
+			} else if out != first {
+				t.Fatalf("%s: GOMAXPROCS %d output differs from GOMAXPROCS 1", method, p)
+			}
 		}
 	}
 }
