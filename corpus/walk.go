@@ -2,7 +2,6 @@ package corpus
 
 import (
 	"bytes"
-	"crypto/sha256"
 	"errors"
 	"fmt"
 	"io"
@@ -25,30 +24,70 @@ const sniffBytes = 8 << 10
 // Options configures [Walk]. The zero value is the documented default.
 type Options struct {
 	// MaxBytes is the size limit for one file; 0 means DefaultMaxBytes.
+	// No reader takes more than this from one file, including what it
+	// decompresses or decodes from it.
 	MaxBytes int64
+	// Include, when not empty, keeps only files whose slash path or base
+	// name matches one of these path.Match patterns; Exclude drops files
+	// (and folders) that match one. Files left out this way are not listed
+	// as skipped.
+	Include, Exclude []string
+	// KeepQuoted keeps quoted reply lines, reply and forward headers and
+	// signatures in e-mail bodies; by default they are removed.
+	KeepQuoted bool
+	// NoAttachments turns off reading e-mail attachments as documents.
+	NoAttachments bool
+	// TextField, IDField and TitleField name the CSV/TSV column or JSON
+	// Lines field holding a record's text, ID and title; "" means the
+	// documented defaults (see records.go).
+	TextField, IDField, TitleField string
 }
 
 // Document is one document read from the corpus.
 type Document struct {
-	ID       string   // slash-separated path relative to the root
-	Title    string   // first line with text, or the file name
-	Text     string   // the whole text, valid UTF-8
-	Size     int64    // raw size in bytes
-	Hash     [32]byte // SHA-256 of the raw bytes
-	Repaired int      // invalid UTF-8 sequences replaced by U+FFFD
+	// ID is the slash-separated path relative to the root; a document
+	// inside a file adds "#" and its place: "box.mbox#3" (third message),
+	// "msg.eml#report.pdf" (an attachment), "data.csv#17" (a record, by
+	// its ID field or line number).
+	ID string
+	// Title is the document's title (see the package documentation).
+	Title string
+	// Text is the whole text, valid UTF-8.
+	Text string
+	// Size is the raw size in bytes of the document (of its part of the
+	// file for documents inside one).
+	Size int64
+	// Hash is the SHA-256 of those raw bytes.
+	Hash [32]byte
+	// Repaired counts invalid UTF-8 sequences replaced by U+FFFD.
+	Repaired int
+	// Format names the reader: "text", "markdown", "rst", "email", "mbox",
+	// "html", "pdf", "docx", "csv", "tsv", "jsonl".
+	Format string
+	// Container is the ID of the file a document inside one came from
+	// ("" for a document that is a whole file).
+	Container string
+	// Meta holds the e-mail headers of messages (empty otherwise).
+	Meta Meta
 }
 
-// Skip records a file that was not read, and why.
+// Meta holds e-mail headers, decoded to UTF-8.
+type Meta struct {
+	From, To, Cc, Date, MessageID string
+}
+
+// Skip records a file, or a part of one, that was not read, and why.
 type Skip struct {
-	Path   string // slash-separated path relative to the root
+	// Path is the slash path relative to the root, with ":line" for a
+	// record of a CSV/TSV/JSON Lines file or "#part" for a part of a
+	// message or mailbox.
+	Path   string
 	Reason string
 }
 
 // ErrStop may be returned by a Walk callback to end the walk early
 // without an error.
 var ErrStop = errors.New("corpus: stop")
-
-var textExtensions = map[string]bool{".txt": true, ".text": true, ".md": true, ".rst": true}
 
 // Walk reads every supported file below the root of fsys in lexical order
 // and calls fn with each document. It returns the files it skipped, in walk
@@ -81,15 +120,38 @@ func Walk(fsys fs.FS, opts Options, fn func(Document) error) ([]Skip, error) {
 			}
 			return nil
 		}
+		if excluded(p, d.Name(), opts.Exclude) {
+			if d.IsDir() {
+				return fs.SkipDir
+			}
+			return nil
+		}
 		if d.IsDir() {
 			return nil
 		}
-		doc, why := readFile(fsys, p, d, opts)
+		if len(opts.Include) > 0 && !excluded(p, d.Name(), opts.Include) {
+			return nil
+		}
+		raw, rd, why := readFile(fsys, p, d, opts)
 		if why != "" {
 			skip(p, why)
 			return nil
 		}
-		return fn(doc)
+		docs, inner, err := extract(p, raw, rd, &opts)
+		skips = append(skips, inner...)
+		if err != nil {
+			skip(p, err.Error())
+			return nil
+		}
+		if len(docs) == 0 && len(inner) == 0 {
+			skip(p, "no documents in the file")
+		}
+		for _, doc := range docs {
+			if err := fn(doc); err != nil {
+				return err
+			}
+		}
+		return nil
 	})
 	if errors.Is(err, ErrStop) {
 		err = nil
@@ -97,68 +159,85 @@ func Walk(fsys fs.FS, opts Options, fn func(Document) error) ([]Skip, error) {
 	return skips, err
 }
 
-// readFile reads one file; a non-empty reason means the file is skipped.
-func readFile(fsys fs.FS, p string, d fs.DirEntry, opts Options) (Document, string) {
+// readFile reads one file whole, bounded by MaxBytes; a non-empty reason
+// means the file is skipped. It returns the reader chosen by the extension.
+func readFile(fsys fs.FS, p string, d fs.DirEntry, opts Options) ([]byte, reader, string) {
 	ext := strings.ToLower(path.Ext(p))
-	if !textExtensions[ext] {
+	rd, ok := readers[ext]
+	if !ok {
 		if d.Type()&fs.ModeSymlink != 0 {
 			if info, err := fs.Stat(fsys, p); err == nil && info.IsDir() {
-				return Document{}, "symbolic link to a folder (not followed)"
+				return nil, reader{}, "symbolic link to a folder (not followed)"
 			}
 		}
 		if ext == "" {
-			return Document{}, "unsupported file type (no extension)"
+			return nil, reader{}, "unsupported file type (no extension)"
 		}
-		return Document{}, "unsupported file type (" + ext + ")"
+		return nil, reader{}, "unsupported file type (" + ext + ")"
 	}
 	info, err := fs.Stat(fsys, p) // follows a symbolic link
 	if err != nil {
-		return Document{}, "unreadable: " + reason(err)
+		return nil, reader{}, "unreadable: " + reason(err)
 	}
 	if info.IsDir() {
-		return Document{}, "symbolic link to a folder (not followed)"
+		return nil, reader{}, "symbolic link to a folder (not followed)"
 	}
 	if !info.Mode().IsRegular() {
-		return Document{}, "not a regular file (" + info.Mode().Type().String() + ")"
+		return nil, reader{}, "not a regular file (" + info.Mode().Type().String() + ")"
 	}
 	if info.Size() > opts.MaxBytes {
-		return Document{}, fmt.Sprintf("larger than the size limit (%s > %s)", byteSize(info.Size()), byteSize(opts.MaxBytes))
+		return nil, reader{}, fmt.Sprintf("larger than the size limit (%s > %s)", byteSize(info.Size()), byteSize(opts.MaxBytes))
 	}
 	f, err := fsys.Open(p)
 	if err != nil {
-		return Document{}, "unreadable: " + reason(err)
+		return nil, reader{}, "unreadable: " + reason(err)
 	}
 	defer f.Close()
 	raw, err := io.ReadAll(io.LimitReader(f, opts.MaxBytes+1))
 	if err != nil {
-		return Document{}, "unreadable: " + reason(err)
+		return nil, reader{}, "unreadable: " + reason(err)
 	}
 	if int64(len(raw)) > opts.MaxBytes {
-		return Document{}, fmt.Sprintf("larger than the size limit (more than %s)", byteSize(opts.MaxBytes))
+		return nil, reader{}, fmt.Sprintf("larger than the size limit (more than %s)", byteSize(opts.MaxBytes))
 	}
 	if len(raw) == 0 {
-		return Document{}, "empty file"
+		return nil, reader{}, "empty file"
 	}
-	if why := binaryReason(raw); why != "" {
-		return Document{}, why
+	if rd.text {
+		if why := binaryReason(raw); why != "" {
+			return nil, reader{}, why
+		}
 	}
+	return raw, rd, ""
+}
+
+// decodeText turns raw bytes of a text file into valid UTF-8 (dropping a
+// byte order mark), or gives the reason it is not text.
+func decodeText(raw []byte) (text string, repaired int, why string) {
 	text, bad := repairUTF8(raw)
 	if bad*10 > len(raw) {
-		return Document{}, fmt.Sprintf("not UTF-8 text (%d invalid byte sequences in %d bytes)", bad, len(raw))
+		return "", 0, fmt.Sprintf("not UTF-8 text (%d invalid byte sequences in %d bytes)", bad, len(raw))
 	}
 	// A byte order mark is an encoding signature, not text.
 	text = strings.TrimPrefix(text, "\ufeff")
 	if strings.TrimSpace(text) == "" {
-		return Document{}, "no text (white space only)"
+		return "", 0, "no text (white space only)"
 	}
-	return Document{
-		ID:       p,
-		Title:    Title(text, path.Base(p)),
-		Text:     text,
-		Size:     int64(len(raw)),
-		Hash:     sha256.Sum256(raw),
-		Repaired: bad,
-	}, ""
+	return text, bad, ""
+}
+
+// excluded reports whether the slash path p or its base name matches one
+// of the patterns (path.Match syntax; a bad pattern matches nothing).
+func excluded(p, name string, patterns []string) bool {
+	for _, pat := range patterns {
+		if ok, _ := path.Match(pat, p); ok {
+			return true
+		}
+		if ok, _ := path.Match(pat, name); ok {
+			return true
+		}
+	}
+	return false
 }
 
 // reason gives the innermost message of a path error, without the path,
