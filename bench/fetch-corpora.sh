@@ -12,6 +12,7 @@
 #   DEST/unpacked/       the tarballs unpacked
 #   DEST/brown/          500 Brown corpus texts, one .txt file each
 #   DEST/spamassassin/   one .txt file per mail message, in one folder per group
+#   DEST/spamassassin-eml/  every message raw, as .eml, in one folder per group
 set -euo pipefail
 
 root=$(cd "$(dirname "$0")/.." && pwd)
@@ -55,7 +56,7 @@ done
 key="$(cat "$dest"/unpacked/*/.unpacked | sha1sum | cut -c1-40) $(sha1sum "$root/bench/prepare/main.go" | cut -c1-40)"
 stamp=$dest/.prepared
 if [ "${FORCE:-0}" != 1 ] && [ -f "$stamp" ] && [ "$(head -1 "$stamp")" = "$key" ] &&
-  [ -d "$dest/brown" ] && [ -d "$dest/spamassassin" ]; then
+  [ -d "$dest/brown" ] && [ -d "$dest/spamassassin" ] && [ -d "$dest/spamassassin-eml" ]; then
   echo "have brown/ and spamassassin/ (FORCE=1 to convert again); counts:"
   tail -n +2 "$stamp"
   exit 0

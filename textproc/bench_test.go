@@ -2,6 +2,8 @@ package textproc_test
 
 import (
 	"math/rand/v2"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 
@@ -52,7 +54,7 @@ func benchText(size int) string {
 func BenchmarkAnalyze(b *testing.B) {
 	text := benchText(20 << 10)
 	b.Run("warm", func(b *testing.B) {
-		a := textproc.NewAnalyzer(textproc.Options{})
+		a := textproc.NewAnalyzer(textproc.Options{Lang: textproc.English})
 		n := 0
 		b.SetBytes(int64(len(text)))
 		b.ReportAllocs()
@@ -68,10 +70,74 @@ func BenchmarkAnalyze(b *testing.B) {
 		b.SetBytes(int64(len(text)))
 		b.ReportAllocs()
 		for b.Loop() {
-			textproc.NewAnalyzer(textproc.Options{}).Analyze(text, func(_, _ string) { n++ })
+			textproc.NewAnalyzer(textproc.Options{Lang: textproc.English}).Analyze(text, func(_, _ string) { n++ })
 		}
 		if n == 0 {
 			b.Fatal("no terms")
 		}
 	})
+}
+
+// BenchmarkAnalyzeLanguages measures ingest throughput per language on the
+// fixture paragraphs of testdata/langid/<language> (invented text), each
+// paragraph analysed as one document, as the index does over a corpus:
+// with the language detected per document (auto) or fixed, and with the
+// stem memo on or off (Options.NoMemo). The analyzer is reused across
+// iterations, so "memo=on" is the steady state of a large corpus whose
+// vocabulary has been seen.
+func BenchmarkAnalyzeLanguages(b *testing.B) {
+	for _, l := range textproc.Languages() {
+		docs := fixtureDocs(b, l)
+		size := 0
+		for _, d := range docs {
+			size += len(d)
+		}
+		for _, mode := range []textproc.Language{textproc.Auto, l} {
+			name := "detect=auto"
+			if mode != textproc.Auto {
+				name = "detect=fixed"
+			}
+			for _, noMemo := range []bool{false, true} {
+				memo := "memo=on"
+				if noMemo {
+					memo = "memo=off"
+				}
+				b.Run("lang="+string(l)+"/"+name+"/"+memo, func(b *testing.B) {
+					a := textproc.NewAnalyzer(textproc.Options{Lang: mode, NoMemo: noMemo})
+					n := 0
+					b.SetBytes(int64(size))
+					b.ReportAllocs()
+					for b.Loop() {
+						for _, d := range docs {
+							a.Analyze(d, func(_, _ string) { n++ })
+						}
+					}
+					if n == 0 {
+						b.Fatal("no terms")
+					}
+				})
+			}
+		}
+	}
+}
+
+// fixtureDocs reads the fixture paragraphs of language l, one per file.
+func fixtureDocs(b *testing.B, l textproc.Language) []string {
+	b.Helper()
+	files, err := filepath.Glob(filepath.Join("testdata", "langid", string(l), "*.txt"))
+	if err != nil {
+		b.Fatal(err)
+	}
+	if len(files) == 0 {
+		b.Skipf("no fixture paragraphs for %s", l)
+	}
+	var docs []string
+	for _, f := range files {
+		p, err := os.ReadFile(f)
+		if err != nil {
+			b.Fatal(err)
+		}
+		docs = append(docs, string(p))
+	}
+	return docs
 }

@@ -2,8 +2,10 @@ package textproc
 
 import "sort"
 
-// DisplayForms counts the surface forms seen for each stem, to show every
-// stem as a real word. The zero value is ready to use.
+// DisplayForms counts the surface forms seen for each index term, to show
+// every term as a real word. Terms are keyed with their language (see
+// [SplitTerm]), so the forms of "fr:maison" are French surface words only.
+// The zero value is ready to use.
 type DisplayForms struct {
 	forms map[string]map[string]int
 }
@@ -22,9 +24,11 @@ func (d *DisplayForms) Add(stem, surface string) {
 }
 
 // Form returns the most frequent surface form of stem, ties broken by the
-// smaller string; a stem never seen is returned as it is.
+// smaller string; a stem never seen is returned bare, without its language
+// key (see [SplitTerm]).
 func (d *DisplayForms) Form(stem string) string {
-	best, bestN := stem, 0
+	_, best := SplitTerm(stem)
+	bestN := 0
 	for s, n := range d.forms[stem] {
 		if n > bestN || (n == bestN && s < best) {
 			best, bestN = s, n

@@ -91,7 +91,7 @@ func TestDisplayFormsForms(t *testing.T) {
 // (English): 'flooded', 'flooding', 'floods' all stem to 'flood'.
 func TestDisplayFormsFromAnalyze(t *testing.T) {
 	var d textproc.DisplayForms
-	a := textproc.NewAnalyzer(textproc.Options{})
+	a := textproc.NewAnalyzer(textproc.Options{Lang: textproc.English})
 	a.Analyze("Flooded fields. FLOODING again; flooded roads, floods.", d.Add)
 	want := []textproc.FormCount{
 		{Form: "flooded", Count: 2},

@@ -132,10 +132,55 @@ func TestTokenizeEmojiVariationSelector(t *testing.T) {
 // becomes the single rune U+00E9 after NFC (Unicode canonical composition;
 // Debian python3 unicodedata.normalize('NFC', 'e\u0301') == '\u00e9').
 func TestTokenizeAfterNormalize(t *testing.T) {
-	a := textproc.NewAnalyzer(textproc.Options{})
+	a := textproc.NewAnalyzer(textproc.Options{Lang: textproc.English})
 	got := tokens(a.Normalize("E\u0301cole du barrage"))
 	want := []string{"\u00e9cole", "du", "barrage"}
 	if !slices.Equal(got, want) {
 		t.Errorf("Tokenize(Normalize(...)) = %q, want %q", got, want)
+	}
+}
+
+// TestTokenizeBigrams checks doc.go step 3 for scripts written without
+// spaces: a run of Han, Hiragana, Katakana, Hangul or Thai is cut into
+// overlapping character bigrams, a lone character stays a unigram (common
+// practice in retrieval for these scripts). Unicode scripts and categories
+// quoted are those of Debian python3's unicodedata (name, category).
+func TestTokenizeBigrams(t *testing.T) {
+	tests := []struct {
+		name string
+		in   string
+		want []string
+	}{
+		{"han run", "水道水", []string{"水道", "道水"}},
+		{"two characters give one bigram", "水道", []string{"水道"}},
+		{"lone han character is a unigram", "水", []string{"水"}},
+		{"punctuation ends a run", "水道、点検。", []string{"水道", "点検"}},
+		{"space ends a run", "水道 点検", []string{"水道", "点検"}},
+		// Hiragana and Katakana run on with Han: Japanese mixes them in a
+		// word ("東京都の").
+		{"han with hiragana", "東京都の", []string{"東京", "京都", "都の"}},
+		// U+30FC KATAKANA-HIRAGANA PROLONGED SOUND MARK is Lm, script Common.
+		{"katakana with prolonged sound mark", "ダムー", []string{"ダム", "ムー"}},
+		// U+3005 IDEOGRAPHIC ITERATION MARK is Lm, script Han.
+		{"iteration mark", "時々", []string{"時々"}},
+		// A Latin word or a number next to Han is its own token.
+		{"latin next to han", "ダムdam2024年", []string{"ダム", "dam2024", "年"}},
+		{"hangul syllables", "저수지 수위", []string{"저수", "수지", "수위"}},
+		// U+0E49 THAI CHARACTER MAI THO and U+0E48 MAI EK are Mn: each stays
+		// with the consonant before it. U+0E33 THAI CHARACTER SARA AM is Lo,
+		// a character of its own. So "น้ำท่วม" (U+0E19 U+0E49 U+0E33 U+0E17
+		// U+0E48 U+0E27 U+0E21) is the characters น้, ำ, ท่, ว, ม.
+		{"thai with a tone mark", "น้ำ", []string{"น้ำ"}},
+		{"thai run", "น้ำท่วม", []string{"น้ำ", "ำท่", "ท่ว", "วม"}},
+		// A run does not cross from one class to another.
+		{"han then hangul", "水저수", []string{"水", "저수"}},
+		{"apostrophe before han ends the word", "dam'水", []string{"dam", "水"}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			if got := tokens(tt.in); !slices.Equal(got, tt.want) {
+				t.Errorf("Tokenize(%q) = %q, want %q", tt.in, got, tt.want)
+			}
+		})
 	}
 }

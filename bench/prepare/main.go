@@ -8,8 +8,9 @@
 // (one JSON file per mail message, <group>/<id>.<md5>.json, with fields
 // "id", "group" and "text", the raw message). It writes
 //
-//	DEST/brown/<file>.txt               one per Brown text
-//	DEST/spamassassin/<group>/<id>.txt  one per message
+//	DEST/brown/<file>.txt                   one per Brown text
+//	DEST/spamassassin/<group>/<id>.txt      one per message
+//	DEST/spamassassin-eml/<group>/<id>.eml  one per message, raw
 //
 // Brown texts: the first line is "Brown <file> (<category>)", then a blank
 // line, then the text with every token's "/tag" suffix removed (the tag
@@ -22,6 +23,9 @@
 // blank line, then the body — everything after the first empty line of the
 // raw message — as it is, MIME parts and all, with invalid UTF-8 replaced
 // by U+FFFD.
+//
+// Raw messages: the package's "text" field exactly as it is (the whole
+// message, header and all), for assay's mail reader.
 //
 // Each output folder is written beside its final place and renamed over
 // it at the end, so an interrupted run leaves no half-written folder. The
@@ -67,7 +71,7 @@ func run(src, dest string) error {
 		return err
 	}
 	fmt.Printf("brown: %d texts\n", n)
-	st, err := prepareSpam(filepath.Join(src, "spamassassin", "package", "data"), filepath.Join(dest, "spamassassin"))
+	st, err := prepareSpam(filepath.Join(src, "spamassassin", "package", "data"), filepath.Join(dest, "spamassassin"), filepath.Join(dest, "spamassassin-eml"))
 	if err != nil {
 		return err
 	}
@@ -78,6 +82,7 @@ func run(src, dest string) error {
 	}
 	fmt.Printf("spamassassin: %d messages; %d without a subject, %d subjects with encoded words (%d left undecoded), %d with invalid UTF-8 replaced\n",
 		total, st.noSubject, st.encoded, st.undecoded, st.repaired)
+	fmt.Printf("spamassassin-eml: %d raw messages\n", total)
 	return nil
 }
 
@@ -187,12 +192,16 @@ type message struct {
 
 var safeName = regexp.MustCompile(`^[A-Za-z0-9][A-Za-z0-9._-]*$`)
 
-func prepareSpam(src, final string) (*spamStats, error) {
+func prepareSpam(src, final, finalEML string) (*spamStats, error) {
 	groups, err := os.ReadDir(src)
 	if err != nil {
 		return nil, fmt.Errorf("spamassassin: %w", err)
 	}
 	tmp, err := freshDir(final)
+	if err != nil {
+		return nil, err
+	}
+	tmpEML, err := freshDir(finalEML)
 	if err != nil {
 		return nil, err
 	}
@@ -209,7 +218,7 @@ func prepareSpam(src, final string) (*spamStats, error) {
 			if !f.Type().IsRegular() || !strings.HasSuffix(f.Name(), ".json") {
 				continue
 			}
-			if err := convertMessage(filepath.Join(src, g.Name(), f.Name()), g.Name(), tmp, st); err != nil {
+			if err := convertMessage(filepath.Join(src, g.Name(), f.Name()), g.Name(), tmp, tmpEML, st); err != nil {
 				return nil, fmt.Errorf("spamassassin: %w", err)
 			}
 		}
@@ -217,10 +226,13 @@ func prepareSpam(src, final string) (*spamStats, error) {
 	if len(st.groups) == 0 {
 		return nil, fmt.Errorf("spamassassin: no messages in %s", src)
 	}
-	return st, replaceDir(tmp, final)
+	if err := replaceDir(tmp, final); err != nil {
+		return nil, err
+	}
+	return st, replaceDir(tmpEML, finalEML)
 }
 
-func convertMessage(path, dirGroup, tmp string, st *spamStats) error {
+func convertMessage(path, dirGroup, tmp, tmpEML string, st *spamStats) error {
 	b, err := os.ReadFile(path)
 	if err != nil {
 		return err
@@ -258,30 +270,40 @@ func convertMessage(path, dirGroup, tmp string, st *spamStats) error {
 		body = strings.ToValidUTF8(body, "\uFFFD")
 	}
 	dir := filepath.Join(tmp, msg.Group)
+	dirEML := filepath.Join(tmpEML, msg.Group)
 	if st.perGroup[msg.Group] == 0 {
-		if err := os.MkdirAll(dir, 0o755); err != nil {
-			return err
+		for _, d := range []string{dir, dirEML} {
+			if err := os.MkdirAll(d, 0o755); err != nil {
+				return err
+			}
 		}
 		st.groups = append(st.groups, msg.Group)
 		slices.Sort(st.groups)
 	}
-	out := filepath.Join(dir, msg.ID+".txt")
-	f, err := os.OpenFile(out, os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o644)
-	if err != nil {
+	if err := writeNew(filepath.Join(dir, msg.ID+".txt"), first+"\n\n"+body); err != nil {
 		if errors.Is(err, os.ErrExist) {
 			return fmt.Errorf("%s: a second message %s/%s", path, msg.Group, msg.ID)
 		}
 		return err
 	}
-	_, err = io.WriteString(f, first+"\n\n"+body)
-	if cerr := f.Close(); err == nil {
-		err = cerr
-	}
-	if err != nil {
+	if err := writeNew(filepath.Join(dirEML, msg.ID+".eml"), msg.Text); err != nil {
 		return err
 	}
 	st.perGroup[msg.Group]++
 	return nil
+}
+
+// writeNew writes s to a file that must not exist yet.
+func writeNew(name, s string) error {
+	f, err := os.OpenFile(name, os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o644)
+	if err != nil {
+		return err
+	}
+	_, err = io.WriteString(f, s)
+	if cerr := f.Close(); err == nil {
+		err = cerr
+	}
+	return err
 }
 
 // splitMessage splits a raw message at its first empty line (LF or CRLF

@@ -17,6 +17,8 @@ type docInfo struct {
 	Title    string
 	Size     int64
 	Repaired int
+	Format   string
+	Meta     corpus.Meta
 }
 
 // analysis is a corpus read and turned into a count matrix.
@@ -40,7 +42,9 @@ func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, erro
 	var b sparsemat.Builder
 	var fp corpus.Fingerprint
 	counts := make(map[string]int)
-	skips, err := corpus.Walk(fsys, corpus.Options{MaxBytes: opts.MaxBytes}, func(d corpus.Document) error {
+	readOpts := opts.Read
+	readOpts.MaxBytes = opts.MaxBytes
+	skips, err := corpus.Walk(fsys, readOpts, func(d corpus.Document) error {
 		if err := ctx.Err(); err != nil {
 			return err
 		}
@@ -51,7 +55,10 @@ func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, erro
 		})
 		b.AddRow(counts)
 		fp.Add(&d)
-		an.docs = append(an.docs, docInfo{ID: d.ID, Title: d.Title, Size: d.Size, Repaired: d.Repaired})
+		if opts.progress != nil {
+			opts.progress()
+		}
+		an.docs = append(an.docs, docInfo{ID: d.ID, Title: d.Title, Size: d.Size, Repaired: d.Repaired, Format: d.Format, Meta: d.Meta})
 		return nil
 	})
 	if err != nil {

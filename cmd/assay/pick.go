@@ -1,14 +1,18 @@
 package main
 
 import (
+	"bufio"
 	"context"
 	"fmt"
+	"io"
 	"io/fs"
 	"os"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
 
+	"github.com/schollz/progressbar/v3"
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
 
@@ -27,6 +31,8 @@ const (
 	defaultFormat   = "text"
 	defaultMethod   = "greedy"
 	defaultCore     = "optimal"
+	defaultGroupBy  = "share"
+	defaultMissed   = 10
 	cautionSampling = "Sampling supports review; it does not replace the review that law, policy or a licensed professional requires."
 )
 
@@ -55,6 +61,22 @@ type pickOptions struct {
 	// Timings adds wall-clock timings to the report (which then differs
 	// from run to run).
 	Timings bool
+	// Out is the file the report goes to ("" for standard output); Table
+	// the CSV table.
+	Out, Table string
+	// Quiet turns the progress bar off.
+	Quiet bool
+	// progress, when set, is called after each document is read.
+	progress func()
+	// Read holds the options of the corpus readers.
+	Read corpus.Options
+	// GroupBy is the rule that attaches documents to exemplars.
+	GroupBy string
+	// Missed is how many least-covered documents to list.
+	Missed int
+	// CurveMax is the longest prefix of the how-many-to-read curve; 0
+	// means 3 × Docs.
+	CurveMax int
 	// CPUProfile and MemProfile name files for pprof profiles (hidden
 	// flags, for profiling on real corpora).
 	CPUProfile, MemProfile string
@@ -62,21 +84,30 @@ type pickOptions struct {
 
 // pickFlags holds the raw flag values before validation.
 type pickFlags struct {
-	format, method, tf, idf, norm string
-	core                          string
-	truncate, timings             bool
-	cpuProfile, memProfile        string
-	accuracy, target              float64
-	docs, terms, rank, minDF      int
-	minLen, power                 int
-	seed                          uint64
-	maxDF                         float64
-	maxBytes                      int64
-	numbers, noStem               bool
+	format, method, tf, idf, norm  string
+	core                           string
+	truncate, timings              bool
+	cpuProfile, memProfile         string
+	groupBy, out, table            string
+	include, exclude               []string
+	stripQuoted, noAttach          bool
+	textField, idField, titleField string
+	quiet                          bool
+	missed, curveMax               int
+	accuracy, target               float64
+	docs, terms, rank, minDF       int
+	minLen, power                  int
+	seed                           uint64
+	maxDF                          float64
+	maxBytes                       int64
+	numbers, noStem                bool
 }
 
 func (f *pickFlags) register(fl *pflag.FlagSet) {
-	fl.StringVar(&f.format, "format", defaultFormat, "output format: text or json")
+	fl.StringVar(&f.format, "format", defaultFormat, "output format: text, json, csv, markdown, html")
+	fl.StringVar(&f.out, "out", "", "write the report to this file instead of standard output")
+	fl.StringVar(&f.table, "table", "", "with --format csv: exemplars, terms, groups, missed or curve (default exemplars)")
+	fl.BoolVarP(&f.quiet, "quiet", "q", false, "no progress bar on standard error")
 	f.registerSelection(fl)
 	f.registerAnalysis(fl)
 }
@@ -94,6 +125,9 @@ func (f *pickFlags) registerSelection(fl *pflag.FlagSet) {
 	fl.Uint64Var(&f.seed, "seed", defaultSeed, "random seed; the same seed gives the same picks")
 	fl.IntVar(&f.power, "power-iters", sparsemat.DefaultPowerIters, "power iterations of the randomized SVD")
 	fl.BoolVar(&f.timings, "timings", false, "add wall-clock timings of each stage to the report (the output then differs from run to run)")
+	fl.StringVar(&f.groupBy, "group-by", defaultGroupBy, "how documents are attached to exemplars: share (the exemplar carrying most of the document's reconstruction) or cosine")
+	fl.IntVar(&f.missed, "missed", defaultMissed, "how many least-covered documents to list")
+	fl.IntVar(&f.curveMax, "curve-max", 0, "longest prefix of the how-many-to-read curve (default 3 × --docs)")
 	fl.StringVar(&f.cpuProfile, "cpuprofile", "", "write a CPU profile of the run to this file")
 	fl.StringVar(&f.memProfile, "memprofile", "", "write a heap profile at the end of the run to this file")
 	fl.MarkHidden("cpuprofile")
@@ -103,6 +137,13 @@ func (f *pickFlags) registerSelection(fl *pflag.FlagSet) {
 // registerAnalysis registers the flags that decide how files become the
 // matrix.
 func (f *pickFlags) registerAnalysis(fl *pflag.FlagSet) {
+	fl.StringSliceVar(&f.include, "include", nil, "read only files whose path or name matches one of these globs (comma-separated or repeated)")
+	fl.StringSliceVar(&f.exclude, "exclude", nil, "leave out files and folders whose path or name matches one of these globs")
+	fl.BoolVar(&f.stripQuoted, "strip-quoted", true, "drop quoted reply lines, reply and forward headers and signatures from e-mail (--strip-quoted=false keeps them)")
+	fl.BoolVar(&f.noAttach, "no-attachments", false, "do not read e-mail attachments as documents of their own")
+	fl.StringVar(&f.textField, "text-field", "", "CSV/TSV column or JSON Lines field holding a record's text (default: the first of text, body, content, message, description, abstract)")
+	fl.StringVar(&f.idField, "id-field", "", "column or field holding a record's ID (default: id, identifier, key; else the line number)")
+	fl.StringVar(&f.titleField, "title-field", "", "column or field holding a record's title (default: title, subject, name, headline; else the first line of the text)")
 	fl.IntVar(&f.minDF, "min-df", -1, "keep terms found in at least this many documents (default 2 with 20 or more documents, else 1)")
 	fl.Float64Var(&f.maxDF, "max-df", defaultMaxDF, "keep terms found in at most this share of the documents, in (0, 1]")
 	fl.StringVar(&f.tf, "tf", string(sparsemat.TFLog), "term-frequency weight: log (1+ln tf), raw, binary")
@@ -116,6 +157,9 @@ func (f *pickFlags) registerAnalysis(fl *pflag.FlagSet) {
 
 // options validates the flags; any error is a usage error.
 func (f *pickFlags) options(source string) (pickOptions, error) {
+	if f.format == "csv" && f.table == "" {
+		f.table = "exemplars"
+	}
 	o := pickOptions{
 		Source: source, Format: f.format, Method: f.method,
 		Docs: f.docs, Terms: f.terms, Rank: f.rank, Seed: f.seed,
@@ -123,11 +167,22 @@ func (f *pickFlags) options(source string) (pickOptions, error) {
 		MinLen: f.minLen, Numbers: f.numbers, NoStem: f.noStem, Power: f.power,
 		Core: f.core, TruncateCore: f.truncate, Accuracy: f.accuracy, TargetShare: f.target, Timings: f.timings,
 		CPUProfile: f.cpuProfile, MemProfile: f.memProfile,
+		GroupBy: f.groupBy, Missed: f.missed, CurveMax: f.curveMax,
+		Out: f.out, Table: f.table, Quiet: f.quiet,
+		Read: corpus.Options{
+			MaxBytes: f.maxBytes, Include: f.include, Exclude: f.exclude,
+			KeepQuoted: !f.stripQuoted, NoAttachments: f.noAttach,
+			TextField: f.textField, IDField: f.idField, TitleField: f.titleField,
+		},
 		Weight: sparsemat.Weighting{TF: sparsemat.TF(f.tf), IDF: sparsemat.IDF(f.idf), Norm: sparsemat.Norm(f.norm)},
 	}
 	switch {
-	case o.Format != "text" && o.Format != "json":
-		return o, usagef("unknown --format %q (allowed: text, json)", o.Format)
+	case !slices.Contains(formats, o.Format):
+		return o, usagef("unknown --format %q (allowed: %s)", o.Format, strings.Join(formats, ", "))
+	case o.Table != "" && o.Format != "csv":
+		return o, usagef("--table goes with --format csv")
+	case o.Format == "csv" && !slices.Contains(csvTables, o.Table):
+		return o, usagef("unknown --table %q (allowed: %s)", o.Table, strings.Join(csvTables, ", "))
 	case !validMethod(o.Method):
 		return o, usagef("unknown --method %q (allowed: %s)", o.Method, methodList())
 	case o.Core != "optimal" && o.Core != "intersection":
@@ -138,6 +193,12 @@ func (f *pickFlags) options(source string) (pickOptions, error) {
 		return o, usagef("--accuracy must lie in (0, 1] (got %g)", o.Accuracy)
 	case o.TargetShare < 0 || o.TargetShare > 1:
 		return o, usagef("--target-share must lie in (0, 1] (got %g)", o.TargetShare)
+	case o.GroupBy != "share" && o.GroupBy != "cosine":
+		return o, usagef("unknown --group-by %q (allowed: share, cosine)", o.GroupBy)
+	case o.Missed < 0:
+		return o, usagef("--missed must be at least 0 (got %d)", o.Missed)
+	case o.CurveMax < 0:
+		return o, usagef("--curve-max must be at least 1, or 0 for the default (got %d)", o.CurveMax)
 	case o.Accuracy > 0 && o.TargetShare > 0:
 		return o, usagef("--accuracy and --target-share cannot be combined")
 	case o.Docs < 1:
@@ -230,6 +291,18 @@ func runPick(ctx context.Context, app *App, fsys fs.FS, opts pickOptions) error 
 		return err
 	}
 	defer stop()
+	if app.ErrTerminal && !opts.Quiet {
+		bar := progressbar.NewOptions(-1,
+			progressbar.OptionSetWriter(app.Err),
+			progressbar.OptionSetDescription("reading"),
+			progressbar.OptionShowCount(),
+			progressbar.OptionSpinnerType(14),
+			progressbar.OptionClearOnFinish(),
+			progressbar.OptionThrottle(100*time.Millisecond),
+		)
+		opts.progress = func() { bar.Add(1) }
+		defer bar.Finish()
+	}
 	start := time.Now()
 	an, err := analyze(ctx, fsys, opts)
 	if err != nil {
@@ -246,12 +319,49 @@ func runPick(ctx context.Context, app *App, fsys fs.FS, opts pickOptions) error 
 	for _, w := range rep.Warnings {
 		fmt.Fprintf(app.Err, "assay: warning: %s\n", w)
 	}
-	switch opts.Format {
-	case "json":
-		return writeJSON(app.Out, rep)
-	default:
-		return writeText(app.Out, rep)
+	if n := len(rep.Skipped); n > 0 {
+		fmt.Fprintf(app.Err, "assay: %d files or parts skipped (listed in the report with the reasons)\n", n)
 	}
+	return writeReport(app, rep, opts)
+}
+
+// formats are the values of --format; csvTables those of --table.
+var (
+	formats   = []string{"text", "json", "csv", "markdown", "html"}
+	csvTables = []string{"exemplars", "terms", "groups", "missed", "curve"}
+)
+
+// writeReport renders the report in the chosen format to --out or stdout.
+func writeReport(app *App, rep *Report, opts pickOptions) error {
+	render := func(w io.Writer, terminal bool) error {
+		switch opts.Format {
+		case "json":
+			return writeJSON(w, rep)
+		case "csv":
+			return writeCSV(w, rep, opts.Table)
+		case "markdown":
+			return writeMarkdown(w, rep)
+		case "html":
+			return writeHTML(w, rep)
+		default:
+			st := textStyle{width: defaultTextWidth}
+			if terminal {
+				st.color = !app.NoColor
+				if app.Width > 0 {
+					st.width = app.Width
+				}
+			}
+			return writeText(w, rep, st)
+		}
+	}
+	if opts.Out == "" {
+		return render(app.Out, app.OutTerminal)
+	}
+	if err := writeFile(opts.Out, func(w *bufio.Writer) error { return render(w, false) }); err != nil {
+		return err
+	}
+	fmt.Fprintf(app.Err, "assay: wrote %s\n", opts.Out)
+	return nil
 }
 
 func validMethod(m string) bool {
@@ -291,11 +401,29 @@ func (o pickOptions) command(demo bool) string {
 	}
 	fmt.Fprintf(&b, " --min-df %d --max-df %s --tf %s --idf %s --norm %s", o.MinDF, strconv.FormatFloat(o.MaxDF, 'g', -1, 64), o.Weight.TF, o.Weight.IDF, o.Weight.Norm)
 	fmt.Fprintf(&b, " --max-bytes %d --min-length %d --power-iters %d", o.MaxBytes, o.MinLen, o.Power)
+	fmt.Fprintf(&b, " --group-by %s --missed %d --curve-max %d", o.GroupBy, o.Missed, o.CurveMax)
 	if o.Numbers {
 		b.WriteString(" --keep-numbers")
 	}
 	if o.NoStem {
 		b.WriteString(" --no-stem")
+	}
+	for _, g := range o.Read.Include {
+		b.WriteString(" --include " + quoteArg(g))
+	}
+	for _, g := range o.Read.Exclude {
+		b.WriteString(" --exclude " + quoteArg(g))
+	}
+	if o.Read.KeepQuoted {
+		b.WriteString(" --strip-quoted=false")
+	}
+	if o.Read.NoAttachments {
+		b.WriteString(" --no-attachments")
+	}
+	for _, fld := range [][2]string{{"--text-field", o.Read.TextField}, {"--id-field", o.Read.IDField}, {"--title-field", o.Read.TitleField}} {
+		if fld[1] != "" {
+			b.WriteString(" " + fld[0] + " " + quoteArg(fld[1]))
+		}
 	}
 	return b.String()
 }

@@ -9,6 +9,8 @@ import (
 
 	"github.com/james-bowman/sparse"
 
+	"assay/corpus"
+
 	selection "assay/select"
 	"assay/sparsemat"
 )
@@ -17,7 +19,7 @@ import (
 const numericGCPercent = 20
 
 // reportSchema versions the JSON report; bump it on any change of fields.
-const reportSchema = "assay.pick/2"
+const reportSchema = "assay.pick/3"
 
 // Report is everything a pick run found, in the order it is printed. The
 // JSON form is documented field by field in the README.
@@ -28,12 +30,18 @@ type Report struct {
 	Options   optionsInfo   `json:"options"`
 	Exemplars []exemplarOut `json:"exemplars"`
 	Terms     []termOut     `json:"terms"`
+	Missed    []missedOut   `json:"missed"`
+	Curve     []curveOut    `json:"curve"`
 	Figures   figuresOut    `json:"figures"`
 	Skipped   []skipOut     `json:"skipped"`
 	Warnings  []string      `json:"warnings"`
 	Timings   *timingsOut   `json:"timings,omitempty"`
-	Repeat    string        `json:"repeat"`
-	Caution   string        `json:"caution"`
+	// Assignments lists every document with its exemplar, for the CSV
+	// groups table; it is not part of the JSON report (it is as long as
+	// the corpus).
+	Assignments []assignOut `json:"-"`
+	Repeat      string      `json:"repeat"`
+	Caution     string      `json:"caution"`
 }
 
 type toolInfo struct {
@@ -76,6 +84,9 @@ type optionsInfo struct {
 	Numbers      bool     `json:"keep_numbers"`
 	Stemming     bool     `json:"stemming"`
 	PowerIters   int      `json:"power_iters"`
+	GroupBy      string   `json:"group_by"`
+	Missed       int      `json:"missed"`
+	CurveMax     int      `json:"curve_max"`
 }
 
 type exemplarOut struct {
@@ -85,25 +96,94 @@ type exemplarOut struct {
 	Weight     num      `json:"weight"`
 	Score      num      `json:"score"`
 	Duplicates []string `json:"duplicates"`
+	Group      groupOut `json:"group"`
+	Format     string   `json:"format"`
+	Mail       *mailOut `json:"mail,omitempty"`
+}
+
+// mailOut holds the headers of a message, for documents read from e-mail.
+type mailOut struct {
+	From      string `json:"from,omitempty"`
+	To        string `json:"to,omitempty"`
+	Cc        string `json:"cc,omitempty"`
+	Date      string `json:"date,omitempty"`
+	MessageID string `json:"message_id,omitempty"`
+}
+
+// mailOf returns the mail headers of a document, nil when it has none.
+func mailOf(d docInfo) *mailOut {
+	m := d.Meta
+	if m == (corpus.Meta{}) {
+		return nil
+	}
+	return &mailOut{From: m.From, To: m.To, Cc: m.Cc, Date: m.Date, MessageID: m.MessageID}
+}
+
+// groupOut describes the documents an exemplar stands for.
+type groupOut struct {
+	// Size counts the documents in the group, the exemplar and exact
+	// copies included.
+	Size int `json:"size"`
+	// Share is the group's part of ‖A‖_F².
+	Share num `json:"share"`
+	// KeyTerms are the group's heaviest terms (display words).
+	KeyTerms []string `json:"key_terms"`
+	// Members are up to three other members, closest first.
+	Members []string `json:"members"`
+}
+
+// assignOut is one document and the exemplar it is attached to.
+type assignOut struct {
+	ID       string
+	Exemplar string
+	Score    num
+	Coverage num
+}
+
+// missedOut is a document the exemplars cover least.
+type missedOut struct {
+	ID       string   `json:"id"`
+	Title    string   `json:"title"`
+	Coverage num      `json:"coverage"`
+	TopTerms []string `json:"top_terms"`
+	Group    string   `json:"group"`
+}
+
+// curveOut is one point of the how-many-to-read curve.
+type curveOut struct {
+	Docs         int `json:"docs"`
+	Captured     num `json:"captured"`
+	BestCaptured num `json:"best_captured"`
 }
 
 type termOut struct {
-	Term   string `json:"term"`
-	Stem   string `json:"stem"`
-	DF     int    `json:"df"`
-	Picks  int    `json:"picks"`
-	Weight num    `json:"weight"`
-	Score  num    `json:"score"`
+	Term     string `json:"term"`
+	Stem     string `json:"stem"`
+	DF       int    `json:"df"`
+	Picks    int    `json:"picks"`
+	Weight   num    `json:"weight"`
+	Score    num    `json:"score"`
+	Coverage num    `json:"coverage"`
 }
 
 type figuresOut struct {
-	Rank           int        `json:"rank"`
-	FrobeniusNorm  num        `json:"frobenius_norm"`
-	Documents      docsFigure `json:"documents"`
-	Joint          jointFig   `json:"joint"`
-	CoreRank       int        `json:"core_rank"`
-	SingularValues []num      `json:"singular_values"`
-	SVD            string     `json:"svd"`
+	Rank           int         `json:"rank"`
+	FrobeniusNorm  num         `json:"frobenius_norm"`
+	Documents      docsFigure  `json:"documents"`
+	Joint          jointFig    `json:"joint"`
+	CoreRank       int         `json:"core_rank"`
+	SingularValues []num       `json:"singular_values"`
+	SVD            string      `json:"svd"`
+	Coverage       coverageFig `json:"coverage"`
+}
+
+// coverageFig summarises how well the exemplars cover each document.
+type coverageFig struct {
+	Mean   num `json:"mean"`
+	Median num `json:"median"`
+	// Histogram counts documents (with their exact copies) whose coverage
+	// falls in [0, 0.1), [0.1, 0.2), …, [0.9, 1].
+	Histogram []int `json:"histogram"`
 }
 
 type docsFigure struct {
@@ -189,7 +269,12 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 		rep.Warnings = append(rep.Warnings, fmt.Sprintf("rank %d lowered to %d, the smaller side of the %d×%d matrix of distinct documents", k, lim, md, n))
 		k = lim
 	}
-	svdRank := min(selection.ReferenceRank(k, docs, terms), md, n)
+	curveMax := opts.CurveMax
+	if curveMax <= 0 {
+		curveMax = 3 * docs
+	}
+	curveMax = min(curveMax, md)
+	svdRank := min(selection.ReferenceRank(k, max(docs, curveMax), terms), md, n)
 	if opts.TargetShare > 0 {
 		svdRank = min(md, n, max(svdRank, 2*svdRank)) // room for the search below
 	}
@@ -230,6 +315,18 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 			selOpts.SVD = svd
 		}
 	}
+	// The curve: the first t of curveMax picks, for t = 1 … curveMax, with
+	// the same singular triplets as the main run (so for greedy the main
+	// run's picks are the first docs of these).
+	curveOpts := selOpts
+	curveOpts.Rows, curveOpts.Cols = curveMax, 1
+	curveCur, err := selection.Select(a, curveOpts)
+	if err != nil {
+		return nil, fmt.Errorf("curve: %w", err)
+	}
+	curve := selection.PrefixShares(a, curveCur)
+	curveCur = nil
+
 	tSelect := time.Now()
 	// Hand Select the only reference to the singular vectors: it drops it
 	// once the picks are made, so they can be freed before the core is
@@ -255,12 +352,14 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 	resolved := opts
 	resolved.Rank = k
 	resolved.MinDF = an.minDF
+	resolved.CurveMax = curveMax
 	rep.Repeat = resolved.command(opts.Source == demoSource)
 	rep.Options = optionsInfo{
 		Method: opts.Method, Core: opts.Core, TruncateCore: opts.TruncateCore, Seed: opts.Seed, Docs: docs, Terms: terms, Rank: k,
 		Accuracy: optFloat(opts.Accuracy), TargetShare: optFloat(opts.TargetShare),
 		MinDF: an.minDF, MaxDF: opts.MaxDF, TF: string(opts.Weight.TF), IDF: string(opts.Weight.IDF), Norm: string(opts.Weight.Norm),
 		MaxBytes: opts.MaxBytes, MinLength: opts.MinLen, Numbers: opts.Numbers, Stemming: !opts.NoStem, PowerIters: opts.Power,
+		GroupBy: opts.GroupBy, Missed: opts.Missed, CurveMax: curveMax,
 	}
 	repaired := 0
 	for _, d := range an.docs {
@@ -275,19 +374,34 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 		NumericalRank: numRank, RankIsComplete: svd.Exact,
 	}
 
+	ex, err := selection.Explain(a, cur, selection.GroupRule(opts.GroupBy))
+	if err != nil {
+		return nil, err
+	}
+	v := view{an: an, a: a, groups: groups, survivor: survivor}
+	gs := v.groupsOf(cur, ex)
 	for _, p := range byPicks(cur.Rows) {
 		d := an.docs[an.counts.Rows[survivor(p.Index)]]
-		e := exemplarOut{ID: d.ID, Title: d.Title, Picks: p.Count, Weight: num(p.Weight), Score: num(p.Score), Duplicates: []string{}}
-		if groups != nil {
-			for _, row := range groups[p.Index][1:] {
-				e.Duplicates = append(e.Duplicates, an.docs[an.counts.Rows[row]].ID)
-			}
-		}
+		e := exemplarOut{ID: d.ID, Title: d.Title, Picks: p.Count, Weight: num(p.Weight), Score: num(p.Score), Duplicates: v.copies(p.Index), Format: d.Format, Mail: mailOf(d)}
+		e.Group = gs[pickPos(cur.Rows, p.Index)]
 		rep.Exemplars = append(rep.Exemplars, e)
 	}
+	colIdx := make([]int, len(cur.Cols))
+	for i, p := range cur.Cols {
+		colIdx[i] = p.Index
+	}
+	termCov := selection.TermCoverage(a, cur, colIdx)
 	for _, p := range byPicks(cur.Cols) {
 		stem := an.counts.Terms[p.Index]
-		rep.Terms = append(rep.Terms, termOut{Term: an.display.Form(stem), Stem: stem, DF: an.counts.DF[p.Index], Picks: p.Count, Weight: num(p.Weight), Score: num(p.Score)})
+		rep.Terms = append(rep.Terms, termOut{
+			Term: an.display.Form(stem), Stem: stem, DF: an.counts.DF[p.Index], Picks: p.Count,
+			Weight: num(p.Weight), Score: num(p.Score), Coverage: num(termCov[pickPos(cur.Cols, p.Index)]),
+		})
+	}
+	rep.Missed = v.missed(cur, ex, opts.Missed)
+	rep.Assignments = v.assignments(cur, ex)
+	for t, share := range curve {
+		rep.Curve = append(rep.Curve, curveOut{Docs: t + 1, Captured: num(share), BestCaptured: num(sumSq(svd.Values, t+1) / q.NormSq)})
 	}
 
 	rep.Figures = figuresOut{
@@ -298,6 +412,7 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 			BestRelativeError: num(q.BestRelErr()), BestCaptured: num(q.BestCaptured()),
 		},
 		CoreRank: cur.CoreRank, SVD: svdLabel(svd.Exact, opts.Power),
+		Coverage: v.coverage(ex),
 	}
 	if v, ok := q.EtaDocs(); ok {
 		rep.Figures.Documents.Eta = numPtr(v)
@@ -310,7 +425,7 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 	if v, ok := q.Eta(); ok {
 		rep.Figures.Joint.Eta = numPtr(v)
 	}
-	for _, s := range svd.Values[:min(max(k, q.DocsCount), len(svd.Values))] {
+	for _, s := range svd.Values {
 		rep.Figures.SingularValues = append(rep.Figures.SingularValues, num(s))
 	}
 

@@ -5,10 +5,12 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"os"
 	"runtime/debug"
 	"strings"
 
 	"github.com/spf13/cobra"
+	"golang.org/x/term"
 )
 
 // Exit codes.
@@ -24,6 +26,13 @@ type App struct {
 	Out     io.Writer
 	Err     io.Writer
 	Version string
+	// OutTerminal and ErrTerminal say whether the streams are terminals
+	// (colour and the progress bar depend on it); Width is the output
+	// terminal's width in columns, 0 when unknown.
+	OutTerminal, ErrTerminal bool
+	Width                    int
+	// NoColor is set when the NO_COLOR environment variable is.
+	NoColor bool
 }
 
 // usageError marks an error in how the command was called (exit code 2).
@@ -39,6 +48,16 @@ func usagef(format string, args ...any) error {
 // Main runs assay with args and returns the exit code.
 func Main(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	app := &App{Out: stdout, Err: stderr, Version: buildVersion()}
+	if f, ok := stdout.(*os.File); ok && term.IsTerminal(int(f.Fd())) {
+		app.OutTerminal = true
+		if w, _, err := term.GetSize(int(f.Fd())); err == nil {
+			app.Width = w
+		}
+	}
+	if f, ok := stderr.(*os.File); ok && term.IsTerminal(int(f.Fd())) {
+		app.ErrTerminal = true
+	}
+	_, app.NoColor = os.LookupEnv("NO_COLOR")
 	return app.Run(ctx, args)
 }
 

@@ -1,0 +1,234 @@
+package textproc
+
+import (
+	"unicode"
+	"unicode/utf8"
+)
+
+// isWordStart reports a letter or digit, which can start or continue a
+// token.
+func isWordStart(r rune) bool {
+	return unicode.IsLetter(r) || unicode.IsDigit(r)
+}
+
+// isMark reports a combining mark (Mn, Mc) other than a variation selector:
+// variation selectors (U+FE00–U+FE0F, U+E0100–U+E01EF) only choose how an
+// emoji or ideograph is drawn and belong to no word.
+func isMark(r rune) bool {
+	if (r >= 0xfe00 && r <= 0xfe0f) || (r >= 0xe0100 && r <= 0xe01ef) {
+		return false
+	}
+	return unicode.Is(unicode.Mn, r) || unicode.Is(unicode.Mc, r)
+}
+
+func isApostrophe(r rune) bool {
+	return r == '\'' || r == '\u2019' || r == '\u02bc'
+}
+
+// gramClass is the class of a character of a script written without
+// spaces between words. Such characters are cut into overlapping bigrams;
+// a run of them never crosses from one class to another.
+type gramClass uint8
+
+const (
+	gramNone   gramClass = iota
+	gramCJ               // Han, Hiragana, Katakana (Chinese and Japanese run together)
+	gramHangul           // Hangul
+	gramThai             // Thai
+)
+
+// gramClassOf returns the bigram class of r: a letter (or a letter-like
+// number such as U+3007 IDEOGRAPHIC NUMBER ZERO) of Han, Hiragana,
+// Katakana, Hangul or Thai, or U+30FC / U+FF70, the prolonged sound marks,
+// whose script is Common but which only occur inside kana words.
+func gramClassOf(r rune) gramClass {
+	if r < 0x0e00 { // below Thai: Latin, Greek, Cyrillic, Arabic, Indic, …
+		return gramNone
+	}
+	if r == 0x30fc || r == 0xff70 {
+		return gramCJ
+	}
+	if !unicode.IsLetter(r) && !unicode.Is(unicode.Nl, r) {
+		return gramNone
+	}
+	switch {
+	case unicode.Is(unicode.Thai, r):
+		return gramThai
+	case unicode.Is(unicode.Han, r), unicode.Is(unicode.Hiragana, r), unicode.Is(unicode.Katakana, r):
+		return gramCJ
+	case unicode.Is(unicode.Hangul, r):
+		return gramHangul
+	}
+	return gramNone
+}
+
+// tokKind tells a word token from a character n-gram.
+type tokKind uint8
+
+const (
+	tokWord tokKind = iota // a run of letters and digits
+	tokGram                // a bigram, or a lone character, of a script without spaces
+)
+
+// tokRef is one token of a document, held in the analyzer's arena.
+type tokRef struct {
+	start, end int
+	kind       tokKind
+	script     script // of a word: the script of its first letter
+}
+
+// tokenizer splits normalised text into tokens and appends them to arena.
+// Its zero value is ready; reuse it to reuse its buffers.
+type tokenizer struct {
+	arena []byte
+	refs  []tokRef
+	// the word being built: arena[wstart:] while inWord
+	inWord  bool
+	wstart  int
+	wscript script
+	// the run of bigram characters being built: gbuf holds it, gcut the
+	// byte offset in gbuf where each character (a letter and the marks
+	// after it) starts
+	gbuf   []byte
+	gcut   []int
+	gclass gramClass
+}
+
+// reset empties the token list, keeping the buffers.
+func (t *tokenizer) reset() {
+	t.arena = t.arena[:0]
+	t.refs = t.refs[:0]
+	t.inWord = false
+	t.gbuf = t.gbuf[:0]
+	t.gcut = t.gcut[:0]
+	t.gclass = gramNone
+}
+
+// token returns the bytes of ref.
+func (t *tokenizer) token(ref tokRef) []byte { return t.arena[ref.start:ref.end] }
+
+func (t *tokenizer) flushWord() {
+	if t.inWord && len(t.arena) > t.wstart {
+		t.refs = append(t.refs, tokRef{start: t.wstart, end: len(t.arena), kind: tokWord, script: t.wscript})
+	}
+	t.inWord = false
+}
+
+func (t *tokenizer) addGram(b []byte) {
+	start := len(t.arena)
+	t.arena = append(t.arena, b...)
+	t.refs = append(t.refs, tokRef{start: start, end: len(t.arena), kind: tokGram})
+}
+
+// flushGram cuts the run of bigram characters into overlapping bigrams, or
+// keeps a lone character as it is.
+func (t *tokenizer) flushGram() {
+	n := len(t.gcut)
+	switch {
+	case n == 1:
+		t.addGram(t.gbuf)
+	case n > 1:
+		for i := 0; i+1 < n; i++ {
+			end := len(t.gbuf)
+			if i+2 < n {
+				end = t.gcut[i+2]
+			}
+			t.addGram(t.gbuf[t.gcut[i]:end])
+		}
+	}
+	t.gbuf = t.gbuf[:0]
+	t.gcut = t.gcut[:0]
+	t.gclass = gramNone
+}
+
+// run appends the tokens of text by the rule of the package documentation.
+func (t *tokenizer) run(text string) {
+	for i := 0; i < len(text); {
+		r, size := rune(text[i]), 1
+		if r >= utf8.RuneSelf {
+			r, size = utf8.DecodeRuneInString(text[i:])
+		}
+		switch {
+		case r < utf8.RuneSelf && ('a' <= r && r <= 'z' || '0' <= r && r <= '9' || 'A' <= r && r <= 'Z'):
+			// The common case, ahead of the Unicode tables.
+			if t.gclass != gramNone {
+				t.flushGram()
+			}
+			if !t.inWord {
+				t.inWord, t.wstart, t.wscript = true, len(t.arena), scriptNone
+			}
+			if t.wscript == scriptNone && r >= 'A' {
+				t.wscript = scriptLatin
+			}
+			t.arena = append(t.arena, byte(r))
+		case isApostrophe(r):
+			// Checked before the letter test: U+02BC is a letter (Lm).
+			next, _ := utf8.DecodeRuneInString(text[i+size:])
+			if t.inWord && i+size < len(text) && isWordStart(next) && gramClassOf(next) == gramNone {
+				t.arena = append(t.arena, '\'')
+			} else {
+				t.flushWord()
+				t.flushGram()
+			}
+		case gramClassOf(r) != gramNone:
+			t.flushWord()
+			if c := gramClassOf(r); c != t.gclass {
+				t.flushGram()
+				t.gclass = c
+			}
+			t.gcut = append(t.gcut, len(t.gbuf))
+			t.gbuf = utf8.AppendRune(t.gbuf, r)
+		case isWordStart(r):
+			if t.gclass != gramNone {
+				t.flushGram()
+			}
+			if !t.inWord {
+				t.inWord, t.wstart, t.wscript = true, len(t.arena), scriptNone
+			}
+			if t.wscript == scriptNone && unicode.IsLetter(r) {
+				t.wscript = letterScript(r)
+			}
+			t.arena = utf8.AppendRune(t.arena, r)
+		case isMark(r) && t.gclass != gramNone:
+			// A combining mark belongs to the character before it.
+			t.gbuf = utf8.AppendRune(t.gbuf, r)
+		case isMark(r) && t.inWord:
+			// A combining mark continues a token but never starts one.
+			t.arena = utf8.AppendRune(t.arena, r)
+		default:
+			t.flushWord()
+			t.flushGram()
+		}
+		i += size
+	}
+	t.flushWord()
+	t.flushGram()
+}
+
+// letterScript returns the script of the letter r.
+func letterScript(r rune) script {
+	switch {
+	case r < utf8.RuneSelf:
+		return scriptLatin
+	case unicode.Is(unicode.Latin, r):
+		return scriptLatin
+	case unicode.Is(unicode.Cyrillic, r):
+		return scriptCyrillic
+	}
+	return scriptOther
+}
+
+// Tokenize splits already-normalised text into tokens by the rule in the
+// package documentation and calls fn with each, in text order. Apostrophes
+// inside a token are written as U+0027; a possessive "'s" is left on (the
+// analyzer removes it after the stop-list look-up, so that "let's" can
+// match the list). Runs of Han, Hiragana, Katakana, Hangul or Thai come out
+// as overlapping character bigrams. The string passed to fn is only valid
+// during the call.
+func Tokenize(text string, fn func(tok string)) {
+	var t tokenizer
+	t.run(text)
+	for _, ref := range t.refs {
+		fn(unsafeString(t.token(ref)))
+	}
+}
