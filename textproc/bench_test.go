@@ -122,7 +122,7 @@ func BenchmarkAnalyzeLanguages(b *testing.B) {
 }
 
 // fixtureDocs reads the fixture paragraphs of language l, one per file.
-func fixtureDocs(b *testing.B, l textproc.Language) []string {
+func fixtureDocs(b testing.TB, l textproc.Language) []string {
 	b.Helper()
 	files, err := filepath.Glob(filepath.Join("testdata", "langid", string(l), "*.txt"))
 	if err != nil {

@@ -325,3 +325,40 @@ func distinct(m map[string]string) map[string]bool {
 	}
 	return out
 }
+
+// TestSpamAssassinPicks: on the SpamAssassin public corpus laid out as
+// .eml files (bench/fetch-corpora.sh writes ~/.cache/assay-corpora/
+// spamassassin-eml; set ASSAY_SPAMASSASSIN_EML to it), the run reads at
+// least 99% of the messages and 30 picked documents include both ham
+// (easy-ham-*, hard-ham-*) and spam (spam-*) messages.
+func TestSpamAssassinPicks(t *testing.T) {
+	dir := os.Getenv("ASSAY_SPAMASSASSIN_EML")
+	if dir == "" {
+		t.Skip("set ASSAY_SPAMASSASSIN_EML to the .eml folder that bench/fetch-corpora.sh writes")
+	}
+	r := runJSONReport(t, "pick", dir, "--docs", "30", "--curve-max", "30")
+	files := 0
+	filepath.WalkDir(dir, func(_ string, d os.DirEntry, err error) error {
+		if err == nil && !d.IsDir() && strings.HasSuffix(d.Name(), ".eml") {
+			files++
+		}
+		return nil
+	})
+	read := r.Input.DocumentsRead
+	if float64(read) < 0.99*float64(files) {
+		t.Errorf("%d documents read from %d messages, want at least 99%%", read, files)
+	}
+	ham, spam := 0, 0
+	for _, e := range r.Exemplars {
+		if strings.HasPrefix(e.ID, "spam-") {
+			spam++
+		} else {
+			ham++
+		}
+	}
+	if ham == 0 || spam == 0 {
+		t.Errorf("30 picks hold %d ham and %d spam messages, want both", ham, spam)
+	}
+	t.Logf("%d messages, %d documents read (attachments included), %d skipped; picks: %d ham, %d spam; η_docs %v",
+		files, read, r.Input.FilesSkipped, ham, spam, *r.Figures.Documents.Eta)
+}
