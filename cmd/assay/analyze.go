@@ -19,6 +19,7 @@ type docInfo struct {
 	Repaired int
 	Format   string
 	Meta     corpus.Meta
+	Lang     textproc.Language
 }
 
 // analysis is a corpus read and turned into a count matrix.
@@ -38,7 +39,7 @@ var errNoDocuments = errors.New("no readable documents")
 // dropped straight after), and builds the pruned count matrix.
 func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, error) {
 	an := &analysis{}
-	az := textproc.NewAnalyzer(textproc.Options{MinLength: opts.MinLen, KeepNumbers: opts.Numbers, NoStem: opts.NoStem})
+	az := textproc.NewAnalyzer(textproc.Options{MinLength: opts.MinLen, KeepNumbers: opts.Numbers, NoStem: opts.NoStem, Lang: opts.Lang})
 	var b sparsemat.Builder
 	var fp corpus.Fingerprint
 	counts := make(map[string]int)
@@ -49,16 +50,16 @@ func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, erro
 			return err
 		}
 		clear(counts)
-		az.Analyze(d.Text, func(stem, surface string) {
-			counts[stem]++
-			an.display.Add(stem, surface)
+		lang := az.Analyze(d.Text, func(term, surface string) {
+			counts[term]++
+			an.display.Add(term, surface)
 		})
 		b.AddRow(counts)
 		fp.Add(&d)
 		if opts.progress != nil {
 			opts.progress()
 		}
-		an.docs = append(an.docs, docInfo{ID: d.ID, Title: d.Title, Size: d.Size, Repaired: d.Repaired, Format: d.Format, Meta: d.Meta})
+		an.docs = append(an.docs, docInfo{ID: d.ID, Title: d.Title, Size: d.Size, Repaired: d.Repaired, Format: d.Format, Meta: d.Meta, Lang: lang})
 		return nil
 	})
 	if err != nil {

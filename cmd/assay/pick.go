@@ -19,6 +19,7 @@ import (
 	"assay/corpus"
 	selection "assay/select"
 	"assay/sparsemat"
+	"assay/textproc"
 )
 
 // Defaults of the pick options.
@@ -70,6 +71,9 @@ type pickOptions struct {
 	progress func()
 	// Read holds the options of the corpus readers.
 	Read corpus.Options
+	// Lang is the language of analysis (textproc.Auto: detected per
+	// document).
+	Lang textproc.Language
 	// GroupBy is the rule that attaches documents to exemplars.
 	GroupBy string
 	// Missed is how many least-covered documents to list.
@@ -92,6 +96,7 @@ type pickFlags struct {
 	include, exclude               []string
 	stripQuoted, noAttach          bool
 	textField, idField, titleField string
+	lang                           string
 	quiet                          bool
 	missed, curveMax               int
 	accuracy, target               float64
@@ -153,6 +158,7 @@ func (f *pickFlags) registerAnalysis(fl *pflag.FlagSet) {
 	fl.IntVar(&f.minLen, "min-length", 2, "shortest token kept, in characters")
 	fl.BoolVar(&f.numbers, "keep-numbers", false, "keep tokens made only of digits")
 	fl.BoolVar(&f.noStem, "no-stem", false, "do not stem: every word is its own term")
+	fl.StringVar(&f.lang, "lang", "auto", "language of the documents: auto (detected per document), english, french, spanish, russian, swedish, norwegian, hungarian, or und (none: no stemming)")
 }
 
 // options validates the flags; any error is a usage error.
@@ -221,6 +227,11 @@ func (f *pickFlags) options(source string) (pickOptions, error) {
 	if err := o.Weight.Validate(); err != nil {
 		return o, usageError{err}
 	}
+	lang, err := textproc.ParseLanguage(f.lang)
+	if err != nil {
+		return o, usagef("unknown --lang %q (allowed: auto, %s, und)", f.lang, langList())
+	}
+	o.Lang = lang
 	return o, nil
 }
 
@@ -364,6 +375,14 @@ func writeReport(app *App, rep *Report, opts pickOptions) error {
 	return nil
 }
 
+func langList() string {
+	var names []string
+	for _, l := range textproc.Languages() {
+		names = append(names, string(l))
+	}
+	return strings.Join(names, ", ")
+}
+
 func validMethod(m string) bool {
 	for _, x := range selection.Methods {
 		if string(x) == m {
@@ -407,6 +426,9 @@ func (o pickOptions) command(demo bool) string {
 	}
 	if o.NoStem {
 		b.WriteString(" --no-stem")
+	}
+	if o.Lang != textproc.Auto && o.Lang != "" {
+		b.WriteString(" --lang " + string(o.Lang))
 	}
 	for _, g := range o.Read.Include {
 		b.WriteString(" --include " + quoteArg(g))

@@ -59,6 +59,13 @@ func writeText(w io.Writer, rep *Report, st textStyle) error {
 	if in.RepairedDocs > 0 {
 		fmt.Fprintf(bw, "         %d documents had invalid UTF-8 repaired\n", in.RepairedDocs)
 	}
+	if len(in.Languages) > 1 {
+		var parts []string
+		for _, l := range in.Languages {
+			parts = append(parts, fmt.Sprintf("%s %d", l.Language, l.Documents))
+		}
+		fmt.Fprintf(bw, "         languages: %s\n", strings.Join(parts, ", "))
+	}
 	fmt.Fprintf(bw, "Input    %s\n", in.Fingerprint)
 	fmt.Fprintf(bw, "Method   %s; core %s; seed %d; %d documents, %d terms; rank k = %d; groups by %s\n",
 		methodLabel(o.Method), o.Core, o.Seed, o.Docs, o.Terms, f.Rank, o.GroupBy)
@@ -88,7 +95,11 @@ func writeText(w io.Writer, rep *Report, st textStyle) error {
 	}
 	tw.Flush()
 	for i, e := range rep.Exemplars {
-		fmt.Fprintf(bw, "\n  %d. %s\n", i+1, ellipsis(e.Title, st.width-6))
+		if e.Language != "" && e.Language != "english" {
+			fmt.Fprintf(bw, "\n  %d. %s [%s]\n", i+1, ellipsis(e.Title, st.width-18), e.Language)
+		} else {
+			fmt.Fprintf(bw, "\n  %d. %s\n", i+1, ellipsis(e.Title, st.width-6))
+		}
 		if m := e.Mail; m != nil {
 			fmt.Fprintf(bw, "     %s\n", ellipsis(mailLine(m), st.width-5))
 		}
@@ -104,15 +115,15 @@ func writeText(w io.Writer, rep *Report, st textStyle) error {
 	head(fmt.Sprintf("Key terms (%d)", len(rep.Terms)))
 	tw = tabwriter.NewWriter(bw, 0, 0, 2, ' ', 0)
 	if sampled {
-		fmt.Fprintln(tw, "  #\tpicks\tweight\tterm\tstem\tdocuments\tcoverage")
+		fmt.Fprintln(tw, "  #\tpicks\tweight\tterm\tstem\tlanguage\tdocuments\tcoverage")
 	} else {
-		fmt.Fprintln(tw, "  #\tscore\tterm\tstem\tdocuments\tcoverage")
+		fmt.Fprintln(tw, "  #\tscore\tterm\tstem\tlanguage\tdocuments\tcoverage")
 	}
 	for i, t := range rep.Terms {
 		if sampled {
-			fmt.Fprintf(tw, "  %d\t%d\t%.4f\t%s\t%s\t%d\t%s\n", i+1, t.Picks, float64(t.Weight), t.Term, t.Stem, t.DF, percent(float64(t.Coverage)))
+			fmt.Fprintf(tw, "  %d\t%d\t%.4f\t%s\t%s\t%s\t%d\t%s\n", i+1, t.Picks, float64(t.Weight), t.Term, t.Stem, t.Language, t.DF, percent(float64(t.Coverage)))
 		} else {
-			fmt.Fprintf(tw, "  %d\t%.4f\t%s\t%s\t%d\t%s\n", i+1, float64(t.Score), t.Term, t.Stem, t.DF, percent(float64(t.Coverage)))
+			fmt.Fprintf(tw, "  %d\t%.4f\t%s\t%s\t%s\t%d\t%s\n", i+1, float64(t.Score), t.Term, t.Stem, t.Language, t.DF, percent(float64(t.Coverage)))
 		}
 	}
 	tw.Flush()

@@ -16,15 +16,15 @@ func writeCSV(w io.Writer, rep *Report, table string) error {
 	join := func(s []string) string { return strings.Join(s, "; ") }
 	switch table {
 	case "exemplars":
-		cw.Write([]string{"rank", "id", "title", "picks", "weight", "score", "group_size", "group_share", "key_terms", "members", "duplicates"})
+		cw.Write([]string{"rank", "id", "title", "language", "picks", "weight", "score", "group_size", "group_share", "key_terms", "members", "duplicates"})
 		for i, e := range rep.Exemplars {
-			cw.Write([]string{strconv.Itoa(i + 1), e.ID, e.Title, strconv.Itoa(e.Picks), f(e.Weight), f(e.Score),
+			cw.Write([]string{strconv.Itoa(i + 1), e.ID, e.Title, e.Language, strconv.Itoa(e.Picks), f(e.Weight), f(e.Score),
 				strconv.Itoa(e.Group.Size), f(e.Group.Share), join(e.Group.KeyTerms), join(e.Group.Members), join(e.Duplicates)})
 		}
 	case "terms":
-		cw.Write([]string{"rank", "term", "stem", "df", "picks", "weight", "score", "coverage"})
+		cw.Write([]string{"rank", "term", "stem", "language", "df", "picks", "weight", "score", "coverage"})
 		for i, t := range rep.Terms {
-			cw.Write([]string{strconv.Itoa(i + 1), t.Term, t.Stem, strconv.Itoa(t.DF), strconv.Itoa(t.Picks), f(t.Weight), f(t.Score), f(t.Coverage)})
+			cw.Write([]string{strconv.Itoa(i + 1), t.Term, t.Stem, t.Language, strconv.Itoa(t.DF), strconv.Itoa(t.Picks), f(t.Weight), f(t.Score), f(t.Coverage)})
 		}
 	case "groups":
 		cw.Write([]string{"id", "exemplar", "score", "coverage"})

@@ -10,6 +10,7 @@ import (
 	"github.com/james-bowman/sparse"
 
 	"assay/corpus"
+	"assay/textproc"
 
 	selection "assay/select"
 	"assay/sparsemat"
@@ -62,6 +63,14 @@ type inputInfo struct {
 	NonZeros       int    `json:"nonzeros"`
 	NumericalRank  int    `json:"numerical_rank_at_least"`
 	RankIsComplete bool   `json:"numerical_rank_exact"`
+	// Languages counts the documents read by language of analysis.
+	Languages []langCount `json:"languages"`
+}
+
+// langCount is how many documents were analysed in one language.
+type langCount struct {
+	Language  string `json:"language"`
+	Documents int    `json:"documents"`
 }
 
 type optionsInfo struct {
@@ -98,6 +107,7 @@ type exemplarOut struct {
 	Duplicates []string `json:"duplicates"`
 	Group      groupOut `json:"group"`
 	Format     string   `json:"format"`
+	Language   string   `json:"language"`
 	Mail       *mailOut `json:"mail,omitempty"`
 }
 
@@ -159,6 +169,7 @@ type curveOut struct {
 type termOut struct {
 	Term     string `json:"term"`
 	Stem     string `json:"stem"`
+	Language string `json:"language"`
 	DF       int    `json:"df"`
 	Picks    int    `json:"picks"`
 	Weight   num    `json:"weight"`
@@ -372,6 +383,7 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 		DocumentsRead: len(an.docs), DocumentsUsed: m, Distinct: md, FilesSkipped: len(an.skips), RepairedDocs: repaired,
 		Vocabulary: an.counts.VocabularySize, TermsKept: n, NonZeros: full.NNZ(),
 		NumericalRank: numRank, RankIsComplete: svd.Exact,
+		Languages: languageCounts(an.docs),
 	}
 
 	ex, err := selection.Explain(a, cur, selection.GroupRule(opts.GroupBy))
@@ -382,7 +394,7 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 	gs := v.groupsOf(cur, ex)
 	for _, p := range byPicks(cur.Rows) {
 		d := an.docs[an.counts.Rows[survivor(p.Index)]]
-		e := exemplarOut{ID: d.ID, Title: d.Title, Picks: p.Count, Weight: num(p.Weight), Score: num(p.Score), Duplicates: v.copies(p.Index), Format: d.Format, Mail: mailOf(d)}
+		e := exemplarOut{ID: d.ID, Title: d.Title, Picks: p.Count, Weight: num(p.Weight), Score: num(p.Score), Duplicates: v.copies(p.Index), Format: d.Format, Language: string(d.Lang), Mail: mailOf(d)}
 		e.Group = gs[pickPos(cur.Rows, p.Index)]
 		rep.Exemplars = append(rep.Exemplars, e)
 	}
@@ -392,9 +404,10 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 	}
 	termCov := selection.TermCoverage(a, cur, colIdx)
 	for _, p := range byPicks(cur.Cols) {
-		stem := an.counts.Terms[p.Index]
+		term := an.counts.Terms[p.Index]
+		lang, stem := textproc.SplitTerm(term)
 		rep.Terms = append(rep.Terms, termOut{
-			Term: an.display.Form(stem), Stem: stem, DF: an.counts.DF[p.Index], Picks: p.Count,
+			Term: an.display.Form(term), Stem: stem, Language: string(lang), DF: an.counts.DF[p.Index], Picks: p.Count,
 			Weight: num(p.Weight), Score: num(p.Score), Coverage: num(termCov[pickPos(cur.Cols, p.Index)]),
 		})
 	}
@@ -488,6 +501,26 @@ func optFloat(v float64) *float64 {
 		return nil
 	}
 	return &v
+}
+
+// languageCounts counts the documents by language, most first (ties by
+// name).
+func languageCounts(docs []docInfo) []langCount {
+	n := map[string]int{}
+	for _, d := range docs {
+		n[string(d.Lang)]++
+	}
+	out := make([]langCount, 0, len(n))
+	for l, c := range n {
+		out = append(out, langCount{Language: l, Documents: c})
+	}
+	sort.Slice(out, func(i, j int) bool {
+		if out[i].Documents != out[j].Documents {
+			return out[i].Documents > out[j].Documents
+		}
+		return out[i].Language < out[j].Language
+	})
+	return out
 }
 
 // numericalRank counts the singular values above max(m, n)·ε·σ₁.
