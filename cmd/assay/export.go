@@ -11,6 +11,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"assay/sparsemat"
+	"assay/textproc"
 )
 
 func newExportCmd(app *App) *cobra.Command {
@@ -24,7 +25,8 @@ pick from, for use in other tools:
 
   PREFIX.mtx        the matrix in Matrix Market coordinate format (real, general;
                     1-based row and column indices; rows are documents, columns terms)
-  PREFIX.terms.tsv  one line per column: index (1-based), term, stem, document frequency
+  PREFIX.terms.tsv  one line per column: index (1-based), term, stem, language,
+                    document frequency
   PREFIX.docs.tsv   one line per row: index (1-based), document ID, title
 
 Tabs and line breaks inside titles are written as spaces. Exact duplicates
@@ -76,8 +78,9 @@ func runExport(ctx context.Context, app *App, fsys fs.FS, opts pickOptions, pref
 		return err
 	}
 	if err := writeFile(prefix+".terms.tsv", func(w *bufio.Writer) error {
-		for j, stem := range an.counts.Terms {
-			fmt.Fprintf(w, "%d\t%s\t%s\t%d\n", j+1, tsvField(an.display.Form(stem)), tsvField(stem), an.counts.DF[j])
+		for j, term := range an.counts.Terms {
+			lang, stem := textproc.SplitTerm(term)
+			fmt.Fprintf(w, "%d\t%s\t%s\t%s\t%d\n", j+1, tsvField(an.display.Form(term)), tsvField(stem), lang, an.counts.DF[j])
 		}
 		return nil
 	}); err != nil {
