@@ -153,7 +153,7 @@ func (v view) missed(cur *selection.CUR, ex selection.Explanation, count int) []
 	for _, i := range rows[:min(count, len(rows))] {
 		d := v.doc(i)
 		out = append(out, missedOut{
-			ID: d.ID, Title: d.Title, Coverage: num(ex.Coverage[i]),
+			ID: d.ID, Title: d.Title, Language: string(d.Lang), Coverage: num(ex.Coverage[i]),
 			TopTerms: v.rowTerms(i, missedTerms), Group: v.doc(cur.Rows[ex.Group[i]].Index).ID,
 		})
 	}
@@ -219,9 +219,13 @@ func (v view) assignments(cur *selection.CUR, ex selection.Explanation) []assign
 			continue
 		}
 		exemplar := v.doc(cur.Rows[g].Index).ID
-		ids := append([]string{v.doc(i).ID}, v.copies(i)...)
-		for _, id := range ids {
-			out = append(out, assignOut{ID: id, Exemplar: exemplar, Score: num(ex.Score[i]), Coverage: num(ex.Coverage[i])})
+		rows := []int{v.survivor(i)}
+		if v.groups != nil {
+			rows = v.groups[i]
+		}
+		for _, r := range rows {
+			d := v.an.docs[v.an.counts.Rows[r]]
+			out = append(out, assignOut{ID: d.ID, Language: string(d.Lang), Exemplar: exemplar, Score: num(ex.Score[i]), Coverage: num(ex.Coverage[i])})
 		}
 	}
 	sort.SliceStable(out, func(a, b int) bool { return out[a].ID < out[b].ID })

@@ -27,14 +27,14 @@ func writeCSV(w io.Writer, rep *Report, table string) error {
 			cw.Write([]string{strconv.Itoa(i + 1), t.Term, t.Stem, t.Language, strconv.Itoa(t.DF), strconv.Itoa(t.Picks), f(t.Weight), f(t.Score), f(t.Coverage)})
 		}
 	case "groups":
-		cw.Write([]string{"id", "exemplar", "score", "coverage"})
+		cw.Write([]string{"id", "language", "exemplar", "score", "coverage"})
 		for _, a := range rep.Assignments {
-			cw.Write([]string{a.ID, a.Exemplar, f(a.Score), f(a.Coverage)})
+			cw.Write([]string{a.ID, a.Language, a.Exemplar, f(a.Score), f(a.Coverage)})
 		}
 	case "missed":
-		cw.Write([]string{"id", "title", "coverage", "top_terms", "group"})
+		cw.Write([]string{"id", "title", "language", "coverage", "top_terms", "group"})
 		for _, m := range rep.Missed {
-			cw.Write([]string{m.ID, m.Title, f(m.Coverage), join(m.TopTerms), m.Group})
+			cw.Write([]string{m.ID, m.Title, m.Language, f(m.Coverage), join(m.TopTerms), m.Group})
 		}
 	case "curve":
 		cw.Write([]string{"docs", "captured", "best_captured"})

@@ -145,6 +145,7 @@ type groupOut struct {
 // assignOut is one document and the exemplar it is attached to.
 type assignOut struct {
 	ID       string
+	Language string
 	Exemplar string
 	Score    num
 	Coverage num
@@ -154,6 +155,7 @@ type assignOut struct {
 type missedOut struct {
 	ID       string   `json:"id"`
 	Title    string   `json:"title"`
+	Language string   `json:"language"`
 	Coverage num      `json:"coverage"`
 	TopTerms []string `json:"top_terms"`
 	Group    string   `json:"group"`

@@ -124,12 +124,12 @@ func groupsOf(t *testing.T, out string) map[string]string {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(rows) == 0 || strings.Join(rows[0], ",") != "id,exemplar,score,coverage" {
+	if len(rows) == 0 || strings.Join(rows[0], ",") != "id,language,exemplar,score,coverage" {
 		t.Fatalf("groups header %v", rows[:1])
 	}
 	g := map[string]string{}
 	for _, r := range rows[1:] {
-		g[r[0]] = r[1]
+		g[r[0]] = r[2]
 	}
 	return g
 }
