@@ -40,14 +40,7 @@ func optimalCore(a *sparse.CSR, cur *CUR, rank int) {
 	coreRank := 0
 	if svd.Factorize(&m, mat.SVDThin) {
 		vals := svd.Values(nil)
-		if len(vals) > 0 && vals[0] > 0 {
-			tol := float64(max(mr, mc)) * epsilon * vals[0]
-			for _, v := range vals {
-				if v > tol {
-					coreRank++
-				}
-			}
-		}
+		coreRank = NumericalRank(vals, mr, mc)
 		if rank > 0 && rank < coreRank {
 			var u, v mat.Dense
 			svd.UTo(&u)

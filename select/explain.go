@@ -5,7 +5,6 @@ import (
 	"math"
 
 	"github.com/james-bowman/sparse"
-	"gonum.org/v1/gonum/lapack/lapack64"
 	"gonum.org/v1/gonum/mat"
 
 	"assay/sparsemat"
@@ -171,23 +170,13 @@ func PrefixShares(a *sparse.CSR, cur *CUR) []float64 {
 		}
 		return out
 	}
-	g := rt.RawMatrix()
-	tau := make([]float64, r)
-	work := make([]float64, 1)
-	lapack64.Geqrf(g, tau, work, -1)
-	work = make([]float64, max(int(work[0]), 1))
-	lapack64.Geqrf(g, tau, work, len(work))
+	tri := sparsemat.HouseholderQR(&rt) // rt becomes Q, in pick order
 	diag := make([]float64, r)
 	var dmax float64
 	for t := range r {
-		diag[t] = math.Abs(rt.At(t, t))
+		diag[t] = math.Abs(tri.At(t, t))
 		dmax = math.Max(dmax, diag[t])
 	}
-	lapack64.Orgqr(g, tau, work, -1)
-	if need := int(work[0]); need > len(work) {
-		work = make([]float64, need)
-	}
-	lapack64.Orgqr(g, tau, work, len(work))
 	var aq mat.Dense
 	sparsemat.MulDense(&aq, a, &rt) // m×r
 	total := sparsemat.FrobeniusSq(a)

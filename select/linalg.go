@@ -1,8 +1,9 @@
 package selection
 
 import (
-	"gonum.org/v1/gonum/lapack/lapack64"
 	"gonum.org/v1/gonum/mat"
+
+	"assay/sparsemat"
 )
 
 // epsilon is the spacing of float64 values at 1, 2⁻⁵².
@@ -19,37 +20,13 @@ func rangeBasis(x *mat.Dense) (q *mat.Dense, s []float64, v *mat.Dense) {
 		return wideBasis(x)
 	}
 	qf := mat.DenseCopyOf(x)
-	g := qf.RawMatrix()
-	tau := make([]float64, c)
-	work := make([]float64, 1)
-	lapack64.Geqrf(g, tau, work, -1)
-	work = make([]float64, max(int(work[0]), 1))
-	lapack64.Geqrf(g, tau, work, len(work))
-	tri := mat.NewDense(c, c, nil)
-	for i := range c {
-		for j := i; j < c; j++ {
-			tri.Set(i, j, qf.At(i, j))
-		}
-	}
-	lapack64.Orgqr(g, tau, work, -1)
-	if need := int(work[0]); need > len(work) {
-		work = make([]float64, need)
-	}
-	lapack64.Orgqr(g, tau, work, len(work))
+	tri := sparsemat.HouseholderQR(qf)
 	var svd mat.SVD
 	if !svd.Factorize(tri, mat.SVDFull) {
 		return mat.NewDense(r, 1, nil), nil, mat.NewDense(c, 1, nil)
 	}
 	sv := svd.Values(nil)
-	rank := 0
-	if len(sv) > 0 && sv[0] > 0 {
-		tol := float64(max(r, c)) * epsilon * sv[0]
-		for _, x := range sv {
-			if x > tol {
-				rank++
-			}
-		}
-	}
+	rank := NumericalRank(sv, r, c)
 	if rank == 0 {
 		return mat.NewDense(r, 1, nil), nil, mat.NewDense(c, 1, nil)
 	}
@@ -57,6 +34,41 @@ func rangeBasis(x *mat.Dense) (q *mat.Dense, s []float64, v *mat.Dense) {
 	svd.UTo(&u)
 	svd.VTo(&vf)
 	return mulInPlace(qf, u.Slice(0, c, 0, rank).(*mat.Dense)), sv[:rank], mat.DenseCopyOf(vf.Slice(0, c, 0, rank))
+}
+
+// wideBasis is rangeBasis for an x with fewer rows than columns, from the
+// SVD of x itself (small: its rows are few).
+func wideBasis(x *mat.Dense) (q *mat.Dense, s []float64, v *mat.Dense) {
+	r, c := x.Dims()
+	var svd mat.SVD
+	if !svd.Factorize(x, mat.SVDThin) {
+		return mat.NewDense(r, 1, nil), nil, mat.NewDense(c, 1, nil)
+	}
+	sv := svd.Values(nil)
+	rank := NumericalRank(sv, r, c)
+	if rank == 0 {
+		return mat.NewDense(r, 1, nil), nil, mat.NewDense(c, 1, nil)
+	}
+	var u, vf mat.Dense
+	svd.UTo(&u)
+	svd.VTo(&vf)
+	return mat.DenseCopyOf(u.Slice(0, r, 0, rank)), sv[:rank], mat.DenseCopyOf(vf.Slice(0, c, 0, rank))
+}
+
+// NumericalRank counts the singular values sv (largest first) of an r×c
+// matrix above max(r, c)·ε·s₁, the tolerance of numpy's matrix_rank.
+func NumericalRank(sv []float64, r, c int) int {
+	if len(sv) == 0 || sv[0] <= 0 {
+		return 0
+	}
+	tol := float64(max(r, c)) * epsilon * sv[0]
+	rank := 0
+	for _, x := range sv {
+		if x > tol {
+			rank++
+		}
+	}
+	return rank
 }
 
 // mulInPlace overwrites the first k columns of x (r×l) with x·w for an l×k
@@ -72,33 +84,6 @@ func mulInPlace(x, w *mat.Dense) *mat.Dense {
 		copy(row[:k], tmp.RawVector().Data)
 	}
 	return x.Slice(0, r, 0, k).(*mat.Dense)
-}
-
-// wideBasis is rangeBasis for an x with fewer rows than columns, from the
-// SVD of x itself (small: its rows are few).
-func wideBasis(x *mat.Dense) (q *mat.Dense, s []float64, v *mat.Dense) {
-	r, c := x.Dims()
-	var svd mat.SVD
-	if !svd.Factorize(x, mat.SVDThin) {
-		return mat.NewDense(r, 1, nil), nil, mat.NewDense(c, 1, nil)
-	}
-	sv := svd.Values(nil)
-	rank := 0
-	if len(sv) > 0 && sv[0] > 0 {
-		tol := float64(max(r, c)) * epsilon * sv[0]
-		for _, x := range sv {
-			if x > tol {
-				rank++
-			}
-		}
-	}
-	if rank == 0 {
-		return mat.NewDense(r, 1, nil), nil, mat.NewDense(c, 1, nil)
-	}
-	var u, vf mat.Dense
-	svd.UTo(&u)
-	svd.VTo(&vf)
-	return mat.DenseCopyOf(u.Slice(0, r, 0, rank)), sv[:rank], mat.DenseCopyOf(vf.Slice(0, c, 0, rank))
 }
 
 // Pinv returns the Moore–Penrose pseudo-inverse of w (r×c, giving c×r) and
@@ -119,16 +104,10 @@ func Pinv(w *mat.Dense) (*mat.Dense, int) {
 	if len(s) == 0 || s[0] == 0 {
 		return out, 0
 	}
-	tol := float64(max(r, c)) * epsilon * s[0]
 	var u, v mat.Dense
 	svd.UTo(&u) // r×q
 	svd.VTo(&v) // c×q
-	rank := 0
-	for _, x := range s {
-		if x > tol {
-			rank++
-		}
-	}
+	rank := NumericalRank(s, r, c)
 	// W⁺ = V_q · diag(1/s) · U_qᵀ over the kept singular values.
 	for i := range c {
 		for j := range r {

@@ -276,20 +276,37 @@ func parallelBlocks(blocks int, fn func(b int)) {
 	wg.Wait()
 }
 
-// householder orthonormalises the columns of y by Householder QR (LAPACK
-// dgeqrf and dorgqr through gonum). For a rank-deficient y the extra
-// columns are orthonormal directions outside its span.
-func householder(y *mat.Dense) {
-	_, c := y.Dims()
+// householder orthonormalises the columns of y by Householder QR; for a
+// rank-deficient y the extra columns are orthonormal directions outside
+// its span.
+func householder(y *mat.Dense) { HouseholderQR(y) }
+
+// HouseholderQR factors a tall y (rows ≥ columns) as y = Q·R by Householder
+// QR (LAPACK dgeqrf and dorgqr through gonum): it overwrites y with Q
+// (orthonormal columns, the first t spanning the first t columns of y when
+// those are independent) and returns the c×c upper-triangular R. It panics
+// if y has more columns than rows.
+func HouseholderQR(y *mat.Dense) *mat.Dense {
+	r, c := y.Dims()
+	if c > r {
+		panic("sparsemat: HouseholderQR needs rows ≥ columns")
+	}
 	g := y.RawMatrix()
 	tau := make([]float64, c)
 	work := make([]float64, 1)
 	lapack64.Geqrf(g, tau, work, -1)
-	work = make([]float64, int(work[0]))
+	work = make([]float64, max(int(work[0]), 1))
 	lapack64.Geqrf(g, tau, work, len(work))
+	tri := mat.NewDense(max(c, 1), max(c, 1), nil)
+	for i := range c {
+		for j := i; j < c; j++ {
+			tri.Set(i, j, y.At(i, j))
+		}
+	}
 	lapack64.Orgqr(g, tau, work, -1)
 	if n := int(work[0]); n > len(work) {
 		work = make([]float64, n)
 	}
 	lapack64.Orgqr(g, tau, work, len(work))
+	return tri
 }

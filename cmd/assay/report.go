@@ -297,7 +297,7 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 		return nil, fmt.Errorf("reference SVD: %w", err)
 	}
 	svdTime := time.Since(tSVD)
-	numRank := numericalRank(svd.Values, md, n)
+	numRank := selection.NumericalRank(svd.Values, md, n)
 	if numRank < k {
 		rep.Warnings = append(rep.Warnings, fmt.Sprintf("rank %d lowered to %d, the numerical rank of the matrix", k, numRank))
 		k = max(numRank, 1)
@@ -523,21 +523,6 @@ func languageCounts(docs []docInfo) []langCount {
 		return out[i].Language < out[j].Language
 	})
 	return out
-}
-
-// numericalRank counts the singular values above max(m, n)·ε·σ₁.
-func numericalRank(values []float64, m, n int) int {
-	if len(values) == 0 || values[0] == 0 {
-		return 0
-	}
-	tol := float64(max(m, n)) * 0x1p-52 * values[0]
-	r := 0
-	for _, v := range values {
-		if v > tol {
-			r++
-		}
-	}
-	return r
 }
 
 func svdLabel(exact bool, power int) string {
