@@ -11,11 +11,11 @@ set -euo pipefail
 cd "$(dirname "$0")/.."
 K=${1:-20}
 DEST=${ASSAY_CORPORA:-$HOME/.cache/assay-corpora}
-[ -d "$DEST/brown" ] && [ -d "$DEST/spamassassin" ] || bench/fetch-corpora.sh "$DEST" >&2
+[ -d "$DEST/brown" ] && [ -d "$DEST/spamassassin-eml" ] || bench/fetch-corpora.sh "$DEST" >&2
 BIN=$(mktemp -d)/assay
 go build -o "$BIN" ./cmd/assay
 OUT=$(mktemp -d)
-for corpus in demo brown spamassassin; do
+for corpus in demo brown spamassassin-eml; do
   for size in "$K" "$((2 * K))"; do
     for method in greedy pivot top leverage norm; do
       for run in 1 2 3; do
@@ -39,7 +39,7 @@ def med(runs, key):
     return statistics.median(r['timings'][key] for r in runs)
 print('| corpus | r = c | method | η_docs | docs share | best r-doc share | joint η | ρ | select s | SVD s | one rand. SVD (rank k) s |')
 print('| --- | --- | --- | --- | --- | --- | --- | --- | --- | --- | --- |')
-order = {'demo': 0, 'brown': 1, 'spamassassin': 2}
+order = {"demo": 0, "brown": 1, "spamassassin-eml": 2}
 meth = {'greedy': 0, 'pivot': 1, 'top': 2, 'leverage': 3, 'norm': 4}
 for key in sorted(rows, key=lambda t: (order[t[0]], t[1], meth[t[2]])):
     runs = rows[key]

@@ -59,6 +59,9 @@ type Options struct {
 	SVD *sparsemat.SVD
 	// PowerIters is the number of power iterations of the pivot sketch.
 	PowerIters int
+	// ProxyRank, when positive, limits greedy's proxy of A to the first
+	// ProxyRank singular triplets of SVD (fewer triplets: faster steps).
+	ProxyRank int
 }
 
 // CUR is a decomposition A ≈ C·U·R made of actual columns and rows of A.
@@ -136,8 +139,17 @@ func Select(a *sparse.CSR, opts Options) (*CUR, error) {
 	case MethodPivot:
 		cols, rows = pivotPicks(a, opts.Cols, opts.Rows, opts.PowerIters, colRng, rowRng)
 	case MethodGreedy:
-		rows = greedyRows(a, opts.SVD, opts.Rows)
-		cols = greedyCols(a, opts.SVD, opts.Cols)
+		proxy := opts.SVD
+		if l := opts.ProxyRank; l > 0 && l < len(proxy.Values) {
+			proxy = &sparsemat.SVD{
+				Values: proxy.Values[:l],
+				U:      proxy.U.Slice(0, proxy.U.RawMatrix().Rows, 0, l).(*mat.Dense),
+				V:      proxy.V.Slice(0, proxy.V.RawMatrix().Rows, 0, l).(*mat.Dense),
+				Exact:  proxy.Exact,
+			}
+		}
+		rows = greedyRows(a, proxy, opts.Rows)
+		cols = greedyCols(a, proxy, opts.Cols)
 	default:
 		return nil, fmt.Errorf("unknown method %q", opts.Method)
 	}

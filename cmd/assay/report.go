@@ -307,6 +307,15 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 		Method: selection.Method(opts.Method), Rows: docs, Cols: terms, Rank: k, Seed: opts.Seed,
 		Core: selection.Core(opts.Core), SVD: svd, PowerIters: 1,
 	}
+	if !svd.Exact {
+		// A randomized SVD sized for the curve holds more triplets than
+		// the main run needs; greedy's steps cost in proportion to the
+		// triplets it uses, so it uses as many as the main run alone would
+		// have (the same for the curve's run, so that the main picks stay
+		// the curve's first ones). An exact SVD costs nothing more to use
+		// whole.
+		selOpts.ProxyRank = selection.ReferenceRank(k, docs, terms)
+	}
 	if opts.TruncateCore {
 		selOpts.CoreRank = k
 	}
