@@ -362,3 +362,34 @@ func TestSpamAssassinPicks(t *testing.T) {
 	t.Logf("%d messages, %d documents read (attachments included), %d skipped; picks: %d ham, %d spam; η_docs %v",
 		files, read, r.Input.FilesSkipped, ham, spam, *r.Figures.Documents.Eta)
 }
+
+// Colour only on a terminal and never with NO_COLOR; the words are the
+// same either way, and the width of a terminal is honoured.
+func TestTextColourAndWidth(t *testing.T) {
+	render := func(app *App) string {
+		var out, errb bytes.Buffer
+		app.Out, app.Err, app.Version = &out, &errb, "test"
+		if code := app.Run(t.Context(), []string{"demo", "--docs", "5"}); code != exitOK {
+			t.Fatalf("exit %d: %s", code, errb.String())
+		}
+		return out.String()
+	}
+	plain := render(&App{})
+	colour := render(&App{OutTerminal: true, Width: 100})
+	noColour := render(&App{OutTerminal: true, Width: 100, NoColor: true})
+	narrow := render(&App{OutTerminal: true, Width: 60, NoColor: true})
+	if strings.Contains(plain, "\x1b[") || strings.Contains(noColour, "\x1b[") {
+		t.Error("escape codes without a terminal or with NO_COLOR")
+	}
+	if !strings.Contains(colour, "\x1b[1m") {
+		t.Error("no bold headings on a terminal")
+	}
+	if strings.ReplaceAll(strings.ReplaceAll(colour, "\x1b[1m", ""), "\x1b[0m", "") != noColour {
+		t.Error("colour changed the words")
+	}
+	for _, line := range strings.Split(narrow, "\n") {
+		if strings.HasPrefix(line, "     key terms:") && len([]rune(line)) > 60 {
+			t.Errorf("line wider than the 60-column terminal: %q", line)
+		}
+	}
+}
