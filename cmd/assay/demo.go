@@ -14,11 +14,13 @@ func newDemoCmd(app *App) *cobra.Command {
 	cmd := &cobra.Command{
 		Use:   "demo",
 		Short: "Run pick on the embedded demo corpus",
-		Long: `demo runs pick on a corpus built into assay: about 160 invented documents of
-the fictional Quillmere Basin Authority (flood defence, library and archive,
+		Long: `demo runs pick on a corpus built into assay: 178 invented documents of the
+fictional Quillmere Basin Authority (flood defence, library and archive,
 transit, moorland fire, staff conduct, water quality, community grants, IT
-systems, wildlife survey, procurement), with a few near-duplicates, one exact
-duplicate and a few one-off outliers. It takes every flag of pick.`,
+systems, wildlife survey, procurement), with a few near-duplicates, two exact
+duplicates, a few one-off outliers, and letters and notices in French,
+Spanish, Russian, Swedish, Norwegian and Hungarian. It takes every flag of
+pick.`,
 		Example: "  assay demo\n  assay demo --docs 12 --terms 25 --format json",
 		Args: func(_ *cobra.Command, args []string) error {
 			if len(args) != 0 {

@@ -1,8 +1,9 @@
 // Package demo embeds the demo corpus: invented documents of the fictional
 // Quillmere Basin Authority, a regional public body for the valley of the
 // (equally fictional) River Quill, across ten topics with a few
-// near-duplicates, one exact duplicate and a few one-off outliers. Every
-// name, place and event in it is made up.
+// near-duplicates, two exact duplicates, a few one-off outliers and a
+// folder of letters and notices in six other languages. Every name, place
+// and event in it is made up.
 package demo
 
 import (
