@@ -5,7 +5,6 @@ import (
 	"errors"
 	"fmt"
 	"path"
-	"runtime/debug"
 	"strings"
 )
 
@@ -54,9 +53,6 @@ func extract(p string, raw []byte, rd reader, opts *Options) (docs []Document, s
 		if r := recover(); r != nil {
 			docs, skips = nil, nil
 			err = fmt.Errorf("%w: %v", errPanic, r)
-			if debugPanics {
-				err = fmt.Errorf("%w: %v\n%s", errPanic, r, debug.Stack())
-			}
 		}
 	}()
 	docs, skips, err = rd.read(p, raw, opts)
@@ -75,10 +71,6 @@ func extract(p string, raw []byte, rd reader, opts *Options) (docs []Document, s
 	}
 	return docs, skips, nil
 }
-
-// debugPanics adds the stack to the skip reason of a panicking reader
-// (for development; off in releases).
-var debugPanics = false
 
 // readPlain reads .txt, .md and .rst files.
 func readPlain(format string) func(p string, raw []byte, _ *Options) ([]Document, []Skip, error) {
