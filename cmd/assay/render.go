@@ -51,7 +51,7 @@ func writeText(w io.Writer, rep *Report, st textStyle) error {
 	}
 	in, f, o := rep.Input, rep.Figures, rep.Options
 	fmt.Fprintf(bw, "assay %s · %s\n\n", rep.Tool.Version, in.Source)
-	fmt.Fprintf(bw, "Corpus   %d documents read, %d used, %d files skipped; %d of %d terms kept; %d non-zeros\n",
+	fmt.Fprintf(bw, "Corpus   %d documents read, %d used, %d skipped (files or parts of them); %d of %d terms kept; %d non-zeros\n",
 		in.DocumentsRead, in.DocumentsUsed, in.FilesSkipped, in.TermsKept, in.Vocabulary, in.NonZeros)
 	if in.Distinct < in.DocumentsUsed {
 		fmt.Fprintf(bw, "         %d exact duplicates merged before picking (%d distinct documents)\n", in.DocumentsUsed-in.Distinct, in.Distinct)

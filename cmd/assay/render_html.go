@@ -86,7 +86,7 @@ code { font-size: .85rem; word-break: break-all; }
 <h2>Summary</h2>
 {{with .R.Figures.Documents}}<p class="headline">These {{.Count}} documents span <strong>{{pct .Captured}}</strong> of the corpus; the best any {{.Count}}-dimensional summary could span is {{pct .BestCaptured}}{{if .Eta}} (η<sub>docs</sub> = {{f3p .Eta}}){{end}}.</p>{{end}}
 <ul>
-<li>{{.R.Input.DocumentsRead}} documents read, {{.R.Input.DocumentsUsed}} used ({{.R.Input.Distinct}} distinct), {{.R.Input.FilesSkipped}} files skipped</li>
+<li>{{.R.Input.DocumentsRead}} documents read, {{.R.Input.DocumentsUsed}} used ({{.R.Input.Distinct}} distinct), {{.R.Input.FilesSkipped}} skipped (files or parts of them)</li>
 <li>{{.R.Input.TermsKept}} of {{.R.Input.Vocabulary}} terms kept</li>
 <li>Coverage of the documents by the exemplars: mean {{pct .R.Figures.Coverage.Mean}}, median {{pct .R.Figures.Coverage.Median}}</li>
 <li>Documents and terms together (C·U·R): {{pct .R.Figures.Joint.Captured}} captured; the best rank-{{.R.Figures.Rank}} approximation {{pct .R.Figures.Joint.BestCaptured}}{{if .R.Figures.Joint.Eta}} (η = {{f3p .R.Figures.Joint.Eta}}){{end}}</li>

@@ -21,7 +21,7 @@ func writeMarkdown(w io.Writer, rep *Report) error {
 		fmt.Fprintf(bw, " (η_docs = %.3f)", float64(*d.Eta))
 	}
 	fmt.Fprintf(bw, ". Every document of the corpus is in the group of the exemplar that stands for it best (rule: %s).\n\n", o.GroupBy)
-	fmt.Fprintf(bw, "- %d documents read, %d used (%d distinct), %d files skipped\n", in.DocumentsRead, in.DocumentsUsed, in.Distinct, in.FilesSkipped)
+	fmt.Fprintf(bw, "- %d documents read, %d used (%d distinct), %d skipped (files or parts of them)\n", in.DocumentsRead, in.DocumentsUsed, in.Distinct, in.FilesSkipped)
 	fmt.Fprintf(bw, "- %d of %d terms kept\n", in.TermsKept, in.Vocabulary)
 	fmt.Fprintf(bw, "- coverage of all documents by the exemplars: mean %s, median %s\n\n", percent(float64(f.Coverage.Mean)), percent(float64(f.Coverage.Median)))
 
