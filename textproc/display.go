@@ -11,7 +11,10 @@ type DisplayForms struct {
 }
 
 // Add records one occurrence of surface as a form of stem.
-func (d *DisplayForms) Add(stem, surface string) {
+func (d *DisplayForms) Add(stem, surface string) { d.AddN(stem, surface, 1) }
+
+// AddN records n occurrences of surface as a form of stem.
+func (d *DisplayForms) AddN(stem, surface string, n int) {
 	if d.forms == nil {
 		d.forms = make(map[string]map[string]int)
 	}
@@ -20,7 +23,7 @@ func (d *DisplayForms) Add(stem, surface string) {
 		m = make(map[string]int, 1)
 		d.forms[stem] = m
 	}
-	m[surface]++
+	m[surface] += n
 }
 
 // Form returns the most frequent surface form of stem, ties broken by the

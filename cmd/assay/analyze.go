@@ -32,6 +32,13 @@ type analysis struct {
 	minDF       int // the min-df used (derived when not given)
 }
 
+// analysed is what a worker found in one document.
+type analysed struct {
+	counts map[string]int    // term -> occurrences
+	forms  map[[2]string]int // (term, surface form) -> occurrences
+	lang   textproc.Language
+}
+
 // errNoDocuments is returned when a folder holds nothing readable.
 var errNoDocuments = errors.New("no readable documents")
 
@@ -39,27 +46,38 @@ var errNoDocuments = errors.New("no readable documents")
 // dropped straight after), and builds the pruned count matrix.
 func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, error) {
 	an := &analysis{}
-	az := textproc.NewAnalyzer(textproc.Options{MinLength: opts.MinLen, KeepNumbers: opts.Numbers, NoStem: opts.NoStem, Lang: opts.Lang})
 	var b sparsemat.Builder
 	var fp corpus.Fingerprint
-	counts := make(map[string]int)
 	readOpts := opts.Read
 	readOpts.MaxBytes = opts.MaxBytes
-	skips, err := corpus.Walk(fsys, readOpts, func(d corpus.Document) error {
+	azOpts := textproc.Options{MinLength: opts.MinLen, KeepNumbers: opts.Numbers, NoStem: opts.NoStem, Lang: opts.Lang}
+	// Each worker reads, extracts and analyses documents with its own
+	// analyzer; the collector below gets the results in walk order, so
+	// the matrix does not depend on --jobs.
+	newWorker := func() func(corpus.Document) analysed {
+		az := textproc.NewAnalyzer(azOpts)
+		return func(d corpus.Document) analysed {
+			r := analysed{counts: map[string]int{}, forms: map[[2]string]int{}}
+			r.lang = az.Analyze(d.Text, func(term, surface string) {
+				r.counts[term]++
+				r.forms[[2]string{term, surface}]++
+			})
+			return r
+		}
+	}
+	skips, err := corpus.WalkParallel(fsys, readOpts, opts.Jobs, newWorker, func(d corpus.Document, r analysed) error {
 		if err := ctx.Err(); err != nil {
 			return err
 		}
-		clear(counts)
-		lang := az.Analyze(d.Text, func(term, surface string) {
-			counts[term]++
-			an.display.Add(term, surface)
-		})
-		b.AddRow(counts)
+		b.AddRow(r.counts)
+		for f, n := range r.forms {
+			an.display.AddN(f[0], f[1], n)
+		}
 		fp.Add(&d)
 		if opts.progress != nil {
 			opts.progress()
 		}
-		an.docs = append(an.docs, docInfo{ID: d.ID, Title: d.Title, Size: d.Size, Repaired: d.Repaired, Format: d.Format, Meta: d.Meta, Lang: lang})
+		an.docs = append(an.docs, docInfo{ID: d.ID, Title: d.Title, Size: d.Size, Repaired: d.Repaired, Format: d.Format, Meta: d.Meta, Lang: r.lang})
 		return nil
 	})
 	if err != nil {

@@ -7,6 +7,7 @@ import (
 	"io"
 	"io/fs"
 	"os"
+	"runtime"
 	"slices"
 	"strconv"
 	"strings"
@@ -74,6 +75,8 @@ type pickOptions struct {
 	// Lang is the language of analysis (textproc.Auto: detected per
 	// document).
 	Lang textproc.Language
+	// Jobs is the number of goroutines that read and analyse documents.
+	Jobs int
 	// GroupBy is the rule that attaches documents to exemplars.
 	GroupBy string
 	// Missed is how many least-covered documents to list.
@@ -97,6 +100,7 @@ type pickFlags struct {
 	stripQuoted, noAttach          bool
 	textField, idField, titleField string
 	lang                           string
+	jobs                           int
 	quiet                          bool
 	missed, curveMax               int
 	accuracy, target               float64
@@ -158,6 +162,7 @@ func (f *pickFlags) registerAnalysis(fl *pflag.FlagSet) {
 	fl.IntVar(&f.minLen, "min-length", 2, "shortest token kept, in characters")
 	fl.BoolVar(&f.numbers, "keep-numbers", false, "keep tokens made only of digits")
 	fl.BoolVar(&f.noStem, "no-stem", false, "do not stem: every word is its own term")
+	fl.IntVar(&f.jobs, "jobs", runtime.GOMAXPROCS(0), "goroutines that read and analyse documents (the output does not depend on it)")
 	fl.StringVar(&f.lang, "lang", "auto", "language of the documents: auto (detected per document), english, french, spanish, russian, swedish, norwegian, hungarian, or und (none: no stemming)")
 }
 
@@ -173,7 +178,7 @@ func (f *pickFlags) options(source string) (pickOptions, error) {
 		MinLen: f.minLen, Numbers: f.numbers, NoStem: f.noStem, Power: f.power,
 		Core: f.core, TruncateCore: f.truncate, Accuracy: f.accuracy, TargetShare: f.target, Timings: f.timings,
 		CPUProfile: f.cpuProfile, MemProfile: f.memProfile,
-		GroupBy: f.groupBy, Missed: f.missed, CurveMax: f.curveMax,
+		GroupBy: f.groupBy, Missed: f.missed, CurveMax: f.curveMax, Jobs: f.jobs,
 		Out: f.out, Table: f.table, Quiet: f.quiet,
 		Read: corpus.Options{
 			MaxBytes: f.maxBytes, Include: f.include, Exclude: f.exclude,
@@ -199,6 +204,8 @@ func (f *pickFlags) options(source string) (pickOptions, error) {
 		return o, usagef("--accuracy must lie in (0, 1] (got %g)", o.Accuracy)
 	case o.TargetShare < 0 || o.TargetShare > 1:
 		return o, usagef("--target-share must lie in (0, 1] (got %g)", o.TargetShare)
+	case o.Jobs < 1:
+		return o, usagef("--jobs must be at least 1 (got %d)", o.Jobs)
 	case o.GroupBy != "share" && o.GroupBy != "cosine":
 		return o, usagef("unknown --group-by %q (allowed: share, cosine)", o.GroupBy)
 	case o.Missed < 0:

@@ -393,3 +393,22 @@ func TestTextColourAndWidth(t *testing.T) {
 		}
 	}
 }
+
+// The output does not depend on --jobs (the pipeline restores walk order).
+func TestJobsDoNotChangeOutput(t *testing.T) {
+	var first string
+	for _, jobs := range []string{"1", "3", "8"} {
+		code, out, stderr := run(t, "demo", "--format", "json", "--jobs", jobs)
+		if code != exitOK {
+			t.Fatalf("--jobs %s: exit %d: %s", jobs, code, stderr)
+		}
+		if first == "" {
+			first = out
+		} else if out != first {
+			t.Fatalf("--jobs %s changes the output", jobs)
+		}
+	}
+	if code, _, _ := run(t, "demo", "--jobs", "0"); code != exitUsage {
+		t.Errorf("--jobs 0: exit %d, want 2", code)
+	}
+}

@@ -1,0 +1,185 @@
+package corpus
+
+import (
+	"errors"
+	"fmt"
+	"io/fs"
+	"strings"
+	"sync"
+)
+
+// WalkParallel reads the corpus like [Walk], but as a bounded pipeline: one
+// goroutine walks the folder in lexical order, jobs workers read and
+// extract the files and run work on each document (a worker gets its own
+// work function from newWorker, so it can keep state such as an analyzer),
+// and the calling goroutine hands the results to collect in walk order,
+// whatever order the workers finish in. The documents passed to collect
+// have their Text dropped (work has seen it); skips come back in walk
+// order. The output therefore does not depend on jobs.
+//
+// At most 4·jobs files are in flight between the walker and collect, so
+// memory stays bounded whatever the corpus size. An error from collect
+// (other than [ErrStop], which ends the walk quietly) stops the walk and
+// is returned. jobs < 1 means 1.
+func WalkParallel[R any](fsys fs.FS, opts Options, jobs int, newWorker func() func(Document) R, collect func(Document, R) error) ([]Skip, error) {
+	if opts.MaxBytes <= 0 {
+		opts.MaxBytes = DefaultMaxBytes
+	}
+	jobs = max(jobs, 1)
+	type task struct {
+		seq  int
+		path string
+		d    fs.DirEntry
+		skip *Skip // a walk error for this entry, nothing to read
+	}
+	type result struct {
+		seq   int
+		docs  []Document
+		rs    []R
+		skips []Skip
+	}
+	tasks := make(chan task, jobs)
+	results := make(chan result, jobs)
+	inFlight := make(chan struct{}, 4*jobs)
+	done := make(chan struct{})
+	var rootErr error
+
+	go func() { // the walker
+		defer close(tasks)
+		seq := 0
+		send := func(t task) bool {
+			select {
+			case inFlight <- struct{}{}:
+			case <-done:
+				return false
+			}
+			t.seq = seq
+			seq++
+			select {
+			case tasks <- t:
+				return true
+			case <-done:
+				return false
+			}
+		}
+		err := fs.WalkDir(fsys, ".", func(p string, d fs.DirEntry, err error) error {
+			if err != nil {
+				if p == "." {
+					return fmt.Errorf("read folder: %w", err)
+				}
+				if !send(task{path: p, skip: &Skip{Path: p, Reason: "unreadable: " + reason(err)}}) {
+					return ErrStop
+				}
+				if d != nil && d.IsDir() {
+					return fs.SkipDir
+				}
+				return nil
+			}
+			if p == "." {
+				return nil
+			}
+			if strings.HasPrefix(d.Name(), ".") || excluded(p, d.Name(), opts.Exclude) {
+				if d.IsDir() {
+					return fs.SkipDir
+				}
+				return nil
+			}
+			if d.IsDir() || (len(opts.Include) > 0 && !excluded(p, d.Name(), opts.Include)) {
+				return nil
+			}
+			if !send(task{path: p, d: d}) {
+				return ErrStop
+			}
+			return nil
+		})
+		if err != nil && !errors.Is(err, ErrStop) {
+			rootErr = err
+		}
+	}()
+
+	var wg sync.WaitGroup
+	for range jobs {
+		wg.Go(func() {
+			work := newWorker()
+			for t := range tasks {
+				r := result{seq: t.seq}
+				if t.skip != nil {
+					r.skips = []Skip{*t.skip}
+				} else {
+					r.docs, r.skips = readOne(fsys, t.path, t.d, &opts)
+					for i := range r.docs {
+						r.rs = append(r.rs, work(r.docs[i]))
+						r.docs[i].Text = ""
+					}
+				}
+				select {
+				case results <- r:
+				case <-done:
+				}
+			}
+		})
+	}
+	go func() {
+		wg.Wait()
+		close(results)
+	}()
+
+	var skips []Skip
+	var collectErr error
+	pending := map[int]result{}
+	next := 0
+	stopped := false
+	for r := range results {
+		if stopped {
+			continue
+		}
+		pending[r.seq] = r
+		for {
+			q, ok := pending[next]
+			if !ok {
+				break
+			}
+			delete(pending, next)
+			next++
+			<-inFlight
+			skips = append(skips, q.skips...)
+			for i, d := range q.docs {
+				if err := collect(d, q.rs[i]); err != nil {
+					if !errors.Is(err, ErrStop) {
+						collectErr = err
+					}
+					stopped = true
+					close(done)
+					break
+				}
+			}
+			if stopped {
+				break
+			}
+		}
+	}
+	if collectErr != nil {
+		return skips, collectErr
+	}
+	if rootErr != nil {
+		return skips, rootErr
+	}
+	return skips, nil
+}
+
+// readOne reads and extracts one file as Walk does: its documents, and its
+// skips (the parts of it, then the file itself).
+func readOne(fsys fs.FS, p string, d fs.DirEntry, opts *Options) ([]Document, []Skip) {
+	raw, rd, why := readFile(fsys, p, d, *opts)
+	if why != "" {
+		return nil, []Skip{{Path: p, Reason: why}}
+	}
+	docs, inner, err := extract(p, raw, rd, opts)
+	if err != nil {
+		return nil, append(inner, Skip{Path: p, Reason: err.Error()})
+	}
+	if len(docs) == 0 && len(inner) == 0 {
+		inner = append(inner, Skip{Path: p, Reason: "no documents in the file"})
+	}
+	return docs, inner
+}
