@@ -39,13 +39,21 @@ type greedySide struct {
 	values []float64                          // Σ_l
 	vector func(i int, dst []float64)         // dense candidate i into dst (length dim)
 	apply  func(q *mat.Dense, dst *mat.Dense) // dst = A·q (rows) or Aᵀ·q (columns)
+	// exclude, when set, marks as taken the candidates a pick rules out.
+	exclude func(picked int, taken []bool)
 }
 
-func greedyRows(a *sparse.CSR, svd *sparsemat.SVD, r int) []Pick {
+func greedyRows(a *sparse.CSR, svd *sparsemat.SVD, r int, maxCos float64) []Pick {
 	m, n := a.Dims()
 	raw := a.RawMatrix()
+	var exclude func(int, []bool)
+	if maxCos > 0 {
+		norms := rowNorms(a)
+		exclude = func(picked int, taken []bool) { excludeNear(a, norms, picked, maxCos, taken) }
+	}
 	return greedy(greedySide{
-		count: m, dim: n, sq: sparsemat.RowSqNorms(a),
+		exclude: exclude,
+		count:   m, dim: n, sq: sparsemat.RowSqNorms(a),
 		d:     scaledBy(svd.U, svd.Values, 2),
 		basis: svd.V, values: svd.Values,
 		vector: func(i int, dst []float64) {
@@ -160,6 +168,9 @@ func greedy(s greedySide, k int, total float64) []Pick {
 			break
 		}
 		taken[best] = true
+		if s.exclude != nil {
+			s.exclude(best, taken)
+		}
 		// New basis vector: the residual of the candidate, orthogonalised
 		// twice against the basis (classical Gram–Schmidt, repeated for
 		// stability).

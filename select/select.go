@@ -59,6 +59,11 @@ type Options struct {
 	SVD *sparsemat.SVD
 	// PowerIters is the number of power iterations of the pivot sketch.
 	PowerIters int
+	// MaxCosine, when positive, keeps any two picked rows below this
+	// cosine: greedy rules out every near-copy of a pick as it goes; the
+	// other methods drop, in pick order, a pick too close to an earlier
+	// one (so they may return fewer rows).
+	MaxCosine float64
 	// ProxyRank, when positive, limits greedy's proxy of A to the first
 	// ProxyRank singular triplets of SVD (fewer triplets: faster steps).
 	ProxyRank int
@@ -148,7 +153,7 @@ func Select(a *sparse.CSR, opts Options) (*CUR, error) {
 				Exact:  proxy.Exact,
 			}
 		}
-		rows = greedyRows(a, proxy, opts.Rows)
+		rows = greedyRows(a, proxy, opts.Rows, opts.MaxCosine)
 		cols = greedyCols(a, proxy, opts.Cols)
 	default:
 		return nil, fmt.Errorf("unknown method %q", opts.Method)
@@ -160,15 +165,29 @@ func Select(a *sparse.CSR, opts Options) (*CUR, error) {
 	// reference lets a caller that kept none free them before the core is
 	// built (on a 100,000-document corpus they are as large as C and R).
 	opts.SVD = nil
-	cur := &CUR{Method: opts.Method, Core: opts.Core, Rows: rows, Cols: cols, rowSpace: -1}
+	if opts.MaxCosine > 0 && opts.Method != MethodGreedy {
+		rows = dropNear(a, rows, opts.MaxCosine)
+	}
+	return Rebuild(a, opts.Method, rows, cols, opts.Core, opts.CoreRank), nil
+}
+
+// Rebuild returns the CUR of a made of the given picks (Index values are
+// rows and columns of a), with the core computed as [Select] computes it.
+// It lets picks made on one matrix (say, with near-copies merged) be
+// measured on another with the same columns (the matrix they stand for).
+func Rebuild(a *sparse.CSR, method Method, rows, cols []Pick, core Core, coreRank int) *CUR {
+	if core == "" {
+		core = CoreOptimal
+	}
+	cur := &CUR{Method: method, Core: core, Rows: rows, Cols: cols, rowSpace: -1}
 	cur.C = pickedCols(a, cols)
 	cur.R = pickedRows(a, rows)
-	if opts.Core == CoreIntersection {
+	if core == CoreIntersection {
 		cur.U, cur.CoreRank = Pinv(intersection(cur.C, rows))
 	} else {
-		optimalCore(a, cur, opts.CoreRank)
+		optimalCore(a, cur, coreRank)
 	}
-	return cur, nil
+	return cur
 }
 
 // ReferenceRank is the number of singular triplets to compute for a run

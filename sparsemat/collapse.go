@@ -91,3 +91,51 @@ func rowsEqual(indptr, ind []int, data []float64, i, j int) bool {
 		return math.Float64bits(x) == math.Float64bits(y)
 	})
 }
+
+// MergeRows replaces each group of rows of a (groups of row indices, each
+// sorted, disjoint) by one row: the group's first row, scaled so that its
+// squared norm is the sum of the squared norms of the group's rows (the
+// group keeps its share of ‖a‖_F²). Rows in no group are kept. Rows keep
+// their relative order; it returns the new matrix and, for each of its
+// rows, the row of a it came from. Groups of one row change nothing.
+func MergeRows(a *sparse.CSR, groups [][]int) (*sparse.CSR, []int) {
+	raw := a.RawMatrix()
+	m := raw.I
+	sq := RowSqNorms(a)
+	drop := make([]bool, m)
+	scale := make([]float64, m)
+	for i := range scale {
+		scale[i] = 1
+	}
+	for _, g := range groups {
+		if len(g) < 2 {
+			continue
+		}
+		var mass float64
+		for _, i := range g {
+			mass += sq[i]
+		}
+		if sq[g[0]] > 0 {
+			scale[g[0]] = math.Sqrt(mass / sq[g[0]])
+		}
+		for _, i := range g[1:] {
+			drop[i] = true
+		}
+	}
+	ia := []int{0}
+	var ja []int
+	var data []float64
+	var from []int
+	for i := range m {
+		if drop[i] {
+			continue
+		}
+		ja = append(ja, raw.Ind[raw.Indptr[i]:raw.Indptr[i+1]]...)
+		for _, v := range raw.Data[raw.Indptr[i]:raw.Indptr[i+1]] {
+			data = append(data, v*scale[i])
+		}
+		ia = append(ia, len(ja))
+		from = append(from, i)
+	}
+	return sparse.NewCSR(len(from), raw.J, ia, ja, data), from
+}

@@ -7,6 +7,7 @@ import (
 	"io/fs"
 
 	"assay/corpus"
+	selection "assay/select"
 	"assay/sparsemat"
 	"assay/textproc"
 )
@@ -30,6 +31,9 @@ type analysis struct {
 	display     textproc.DisplayForms
 	fingerprint string
 	minDF       int // the min-df used (derived when not given)
+	// sigs holds the MinHash signature of every document read, in order
+	// (selection.MinHashes values each), when near-copies are looked for.
+	sigs []uint32
 }
 
 // analysed is what a worker found in one document.
@@ -37,6 +41,38 @@ type analysed struct {
 	counts map[string]int    // term -> occurrences
 	forms  map[[2]string]int // (term, surface form) -> occurrences
 	lang   textproc.Language
+	sig    []uint32 // MinHash signature of the word shingles (nil when near-copies are not looked for)
+}
+
+// shingleLength is the number of consecutive terms in a word shingle.
+const shingleLength = 3
+
+// shingles returns the hashes of the runs of shingleLength consecutive
+// terms (all the terms, before pruning); a text shorter than that gives
+// its terms one by one. Term hashes are FNV-1a, so they do not depend on
+// the run.
+func shingles(terms []uint64) []uint64 {
+	if len(terms) < shingleLength {
+		return terms
+	}
+	out := make([]uint64, 0, len(terms)-shingleLength+1)
+	for i := 0; i+shingleLength <= len(terms); i++ {
+		h := uint64(shingleLength)
+		for _, t := range terms[i : i+shingleLength] {
+			h = h*0x100000001b3 ^ t
+		}
+		out = append(out, h)
+	}
+	return out
+}
+
+func fnv64(s string) uint64 {
+	h := uint64(0xcbf29ce484222325)
+	for i := 0; i < len(s); i++ {
+		h ^= uint64(s[i])
+		h *= 0x100000001b3
+	}
+	return h
 }
 
 // errNoDocuments is returned when a folder holds nothing readable.
@@ -56,12 +92,21 @@ func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, erro
 	// the matrix does not depend on --jobs.
 	newWorker := func() func(corpus.Document) analysed {
 		az := textproc.NewAnalyzer(azOpts)
+		var seq []uint64
 		return func(d corpus.Document) analysed {
 			r := analysed{counts: map[string]int{}, forms: map[[2]string]int{}}
+			seq = seq[:0]
 			r.lang = az.Analyze(d.Text, func(term, surface string) {
 				r.counts[term]++
 				r.forms[[2]string{term, surface}]++
+				if opts.NearDup > 0 {
+					seq = append(seq, fnv64(term))
+				}
 			})
+			if opts.NearDup > 0 {
+				r.sig = make([]uint32, selection.MinHashes)
+				selection.MinHash(r.sig, shingles(seq), opts.Seed)
+			}
 			return r
 		}
 	}
@@ -78,6 +123,7 @@ func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, erro
 			opts.progress()
 		}
 		an.docs = append(an.docs, docInfo{ID: d.ID, Title: d.Title, Size: d.Size, Repaired: d.Repaired, Format: d.Format, Meta: d.Meta, Lang: r.lang})
+		an.sigs = append(an.sigs, r.sig...)
 		return nil
 	})
 	if err != nil {

@@ -46,7 +46,7 @@ are kept as separate rows.`,
 				return usagef("export needs --out PREFIX")
 			}
 			f.format, f.method, f.core, f.docs, f.terms, f.power = defaultFormat, defaultMethod, defaultCore, defaultDocs, defaultTerms, sparsemat.DefaultPowerIters
-			f.groupBy, f.missed = defaultGroupBy, defaultMissed
+			f.groupBy, f.missed, f.nearDup = defaultGroupBy, defaultMissed, defaultNearDup
 			opts, err := f.options(args[0])
 			if err != nil {
 				return err

@@ -35,6 +35,7 @@ const (
 	defaultCore     = "optimal"
 	defaultGroupBy  = "share"
 	defaultMissed   = 10
+	defaultNearDup  = "0.9"
 	cautionSampling = "Sampling supports review; it does not replace the review that law, policy or a licensed professional requires."
 )
 
@@ -77,6 +78,9 @@ type pickOptions struct {
 	Lang textproc.Language
 	// Jobs is the number of goroutines that read and analyse documents.
 	Jobs int
+	// NearDup is the cosine at which two documents are near-copies, merged
+	// for the picking; 0 turns it off.
+	NearDup float64
 	// GroupBy is the rule that attaches documents to exemplars.
 	GroupBy string
 	// Missed is how many least-covered documents to list.
@@ -101,6 +105,7 @@ type pickFlags struct {
 	textField, idField, titleField string
 	lang                           string
 	jobs                           int
+	nearDup                        string
 	quiet                          bool
 	missed, curveMax               int
 	accuracy, target               float64
@@ -136,6 +141,7 @@ func (f *pickFlags) registerSelection(fl *pflag.FlagSet) {
 	fl.BoolVar(&f.timings, "timings", false, "add wall-clock timings of each stage to the report (the output then differs from run to run)")
 	fl.StringVar(&f.groupBy, "group-by", defaultGroupBy, "how documents are attached to exemplars: share (the exemplar carrying most of the document's reconstruction) or cosine")
 	fl.IntVar(&f.missed, "missed", defaultMissed, "how many least-covered documents to list")
+	fl.StringVar(&f.nearDup, "near-dup", defaultNearDup, "cosine at which documents count as near-copies, merged before picking so that no two picks are that close; off to disable")
 	fl.IntVar(&f.curveMax, "curve-max", 0, "longest prefix of the how-many-to-read curve (default 3 × --docs)")
 	fl.StringVar(&f.cpuProfile, "cpuprofile", "", "write a CPU profile of the run to this file")
 	fl.StringVar(&f.memProfile, "memprofile", "", "write a heap profile at the end of the run to this file")
@@ -233,6 +239,15 @@ func (f *pickFlags) options(source string) (pickOptions, error) {
 	}
 	if err := o.Weight.Validate(); err != nil {
 		return o, usageError{err}
+	}
+	switch f.nearDup {
+	case "off", "0":
+	default:
+		t, err := strconv.ParseFloat(f.nearDup, 64)
+		if err != nil || !(t > 0 && t <= 1) {
+			return o, usagef("--near-dup must be a cosine in (0, 1] or off (got %q)", f.nearDup)
+		}
+		o.NearDup = t
 	}
 	lang, err := textproc.ParseLanguage(f.lang)
 	if err != nil {
@@ -428,6 +443,11 @@ func (o pickOptions) command(demo bool) string {
 	fmt.Fprintf(&b, " --min-df %d --max-df %s --tf %s --idf %s --norm %s", o.MinDF, strconv.FormatFloat(o.MaxDF, 'g', -1, 64), o.Weight.TF, o.Weight.IDF, o.Weight.Norm)
 	fmt.Fprintf(&b, " --max-bytes %d --min-length %d --power-iters %d", o.MaxBytes, o.MinLen, o.Power)
 	fmt.Fprintf(&b, " --group-by %s --missed %d --curve-max %d", o.GroupBy, o.Missed, o.CurveMax)
+	if o.NearDup > 0 {
+		fmt.Fprintf(&b, " --near-dup %s", strconv.FormatFloat(o.NearDup, 'g', -1, 64))
+	} else {
+		b.WriteString(" --near-dup off")
+	}
 	if o.Numbers {
 		b.WriteString(" --keep-numbers")
 	}

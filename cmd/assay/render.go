@@ -31,6 +31,10 @@ type textStyle struct {
 // defaultTextWidth is the width used when the output is not a terminal.
 const defaultTextWidth = 100
 
+// nearCopiesShown is how many near-copies of an exemplar the text report
+// names before it only counts the rest.
+const nearCopiesShown = 3
+
 // minTitle is the narrowest column of free text before it stops
 // shrinking.
 const minTitle = 20
@@ -109,6 +113,13 @@ func writeText(w io.Writer, rep *Report, st textStyle) error {
 		}
 		for _, dup := range e.Duplicates {
 			fmt.Fprintf(bw, "     same text: %s\n", ellipsis(dup, st.width-16))
+		}
+		for i, nc := range e.NearCopies {
+			if i == nearCopiesShown {
+				fmt.Fprintf(bw, "     and %d more near-copies\n", len(e.NearCopies)-nearCopiesShown)
+				break
+			}
+			fmt.Fprintf(bw, "     near-copy: %s\n", ellipsis(nc, st.width-16))
 		}
 	}
 

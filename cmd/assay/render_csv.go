@@ -16,10 +16,10 @@ func writeCSV(w io.Writer, rep *Report, table string) error {
 	join := func(s []string) string { return strings.Join(s, "; ") }
 	switch table {
 	case "exemplars":
-		cw.Write([]string{"rank", "id", "title", "language", "picks", "weight", "score", "group_size", "group_share", "key_terms", "members", "duplicates"})
+		cw.Write([]string{"rank", "id", "title", "language", "picks", "weight", "score", "group_size", "group_share", "key_terms", "members", "duplicates", "near_copies"})
 		for i, e := range rep.Exemplars {
 			cw.Write([]string{strconv.Itoa(i + 1), e.ID, e.Title, e.Language, strconv.Itoa(e.Picks), f(e.Weight), f(e.Score),
-				strconv.Itoa(e.Group.Size), f(e.Group.Share), join(e.Group.KeyTerms), join(e.Group.Members), join(e.Duplicates)})
+				strconv.Itoa(e.Group.Size), f(e.Group.Share), join(e.Group.KeyTerms), join(e.Group.Members), join(e.Duplicates), join(e.NearCopies)})
 		}
 	case "terms":
 		cw.Write([]string{"rank", "term", "stem", "language", "df", "picks", "weight", "score", "coverage"})

@@ -108,6 +108,7 @@ code { font-size: .85rem; word-break: break-all; }
 <p>Key terms: {{join $e.Group.KeyTerms}}</p>
 {{if $e.Group.Members}}<p>Also in the group: {{range $k, $m := $e.Group.Members}}{{if $k}}, {{end}}<code>{{$m}}</code>{{end}}</p>{{end}}
 {{if $e.Duplicates}}<p>Same text: {{range $k, $m := $e.Duplicates}}{{if $k}}, {{end}}<code>{{$m}}</code>{{end}}</p>{{end}}
+{{if $e.NearCopies}}<p>Near-copies ({{len $e.NearCopies}}): {{range $k, $m := $e.NearCopies}}{{if $k}}, {{end}}<code>{{$m}}</code>{{end}}</p>{{end}}
 </div>
 {{end}}
 </section>

@@ -37,6 +37,9 @@ func writeMarkdown(w io.Writer, rep *Report) error {
 		if len(e.Duplicates) > 0 {
 			fmt.Fprintf(bw, "- Same text: %s\n", mdCodes(e.Duplicates))
 		}
+		if len(e.NearCopies) > 0 {
+			fmt.Fprintf(bw, "- Near-copies (%d): %s\n", len(e.NearCopies), mdCodes(e.NearCopies))
+		}
 		fmt.Fprintln(bw)
 	}
 

@@ -94,6 +94,7 @@ type optionsInfo struct {
 	Stemming     bool     `json:"stemming"`
 	PowerIters   int      `json:"power_iters"`
 	GroupBy      string   `json:"group_by"`
+	NearDup      *float64 `json:"near_dup"`
 	Missed       int      `json:"missed"`
 	CurveMax     int      `json:"curve_max"`
 }
@@ -105,6 +106,9 @@ type exemplarOut struct {
 	Weight     num      `json:"weight"`
 	Score      num      `json:"score"`
 	Duplicates []string `json:"duplicates"`
+	// NearCopies are the documents merged with this one before picking
+	// (cosine at least --near-dup), with their exact copies.
+	NearCopies []string `json:"near_copies"`
 	Group      groupOut `json:"group"`
 	Format     string   `json:"format"`
 	Language   string   `json:"language"`
@@ -303,11 +307,24 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 		k = max(numRank, 1)
 	}
 
-	selOpts := selection.Options{
-		Method: selection.Method(opts.Method), Rows: docs, Cols: terms, Rank: k, Seed: opts.Seed,
-		Core: selection.Core(opts.Core), SVD: svd, PowerIters: 1,
+	// Near-copies are merged for the picking only: each cluster is one
+	// row carrying the cluster's share of the corpus, and no two picks may
+	// be closer than the threshold. The figures, groups and coverage are
+	// computed on the matrix with every document (a), so they stay honest.
+	nd := nearDupsOf(a, an, func(row int) int { return an.counts.Rows[survivor(row)] }, opts)
+	selSVD := svd
+	if nd.sel != a {
+		selSVD, err = sparsemat.TruncatedSVD(nd.sel, sparsemat.SVDOptions{Rank: min(svdRank, len(nd.from)), PowerIters: opts.Power, Seed: opts.Seed})
+		if err != nil {
+			return nil, fmt.Errorf("SVD of the merged matrix: %w", err)
+		}
+		rep.Warnings = append(rep.Warnings, fmt.Sprintf("%d near-copies merged into %d clusters before picking (cosine ≥ %g)", nd.copies, len(nd.clusters), opts.NearDup))
 	}
-	if !svd.Exact {
+	selOpts := selection.Options{
+		Method: selection.Method(opts.Method), Rows: docs, Cols: terms, Rank: min(k, len(selSVD.Values)), Seed: opts.Seed,
+		Core: selection.Core(opts.Core), SVD: selSVD, PowerIters: 1, MaxCosine: opts.NearDup,
+	}
+	if !selSVD.Exact {
 		// A randomized SVD sized for the curve holds more triplets than
 		// the main run needs; greedy's steps cost in proportion to the
 		// triplets it uses, so it uses as many as the main run alone would
@@ -320,7 +337,7 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 		selOpts.CoreRank = k
 	}
 	if opts.TargetShare > 0 {
-		r, err := smallestDocs(a, selOpts, opts.TargetShare)
+		r, err := smallestDocs(a, nd, selOpts, opts.TargetShare)
 		if err != nil {
 			return nil, err
 		}
@@ -334,7 +351,9 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 			if err != nil {
 				return nil, fmt.Errorf("reference SVD: %w", err)
 			}
-			selOpts.SVD = svd
+			if nd.sel == a {
+				selSVD, selOpts.SVD = svd, svd
+			}
 		}
 	}
 	// The curve: the first t of curveMax picks, for t = 1 … curveMax, with
@@ -342,7 +361,7 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 	// run's picks are the first docs of these).
 	curveOpts := selOpts
 	curveOpts.Rows, curveOpts.Cols = curveMax, 1
-	curveCur, err := selection.Select(a, curveOpts)
+	curveCur, err := nd.pick(a, curveOpts)
 	if err != nil {
 		return nil, fmt.Errorf("curve: %w", err)
 	}
@@ -354,9 +373,9 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 	// once the picks are made, so they can be freed before the core is
 	// built. The figures need only the values.
 	final := selOpts
-	final.SVD = &sparsemat.SVD{Values: svd.Values, U: svd.U, V: svd.V, Exact: svd.Exact}
-	svd.U, svd.V, selOpts.SVD = nil, nil, nil
-	cur, err := selection.Select(a, final)
+	final.SVD = &sparsemat.SVD{Values: selSVD.Values, U: selSVD.U, V: selSVD.V, Exact: selSVD.Exact}
+	svd.U, svd.V, selSVD.U, selSVD.V, selOpts.SVD = nil, nil, nil, nil, nil
+	cur, err := nd.pick(a, final)
 	if err != nil {
 		return nil, fmt.Errorf("pick: %w", err)
 	}
@@ -382,6 +401,7 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 		MinDF: an.minDF, MaxDF: opts.MaxDF, TF: string(opts.Weight.TF), IDF: string(opts.Weight.IDF), Norm: string(opts.Weight.Norm),
 		MaxBytes: opts.MaxBytes, MinLength: opts.MinLen, Numbers: opts.Numbers, Stemming: !opts.NoStem, PowerIters: opts.Power,
 		GroupBy: opts.GroupBy, Missed: opts.Missed, CurveMax: curveMax,
+		NearDup: optFloat(opts.NearDup),
 	}
 	repaired := 0
 	for _, d := range an.docs {
@@ -407,6 +427,7 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 		d := an.docs[an.counts.Rows[survivor(p.Index)]]
 		e := exemplarOut{ID: d.ID, Title: d.Title, Picks: p.Count, Weight: num(p.Weight), Score: num(p.Score), Duplicates: v.copies(p.Index), Format: d.Format, Language: string(d.Lang), Mail: mailOf(d)}
 		e.Group = gs[pickPos(cur.Rows, p.Index)]
+		e.NearCopies = v.nearCopies(nd.clusterOf[p.Index])
 		rep.Exemplars = append(rep.Exemplars, e)
 	}
 	colIdx := make([]int, len(cur.Cols))
@@ -467,16 +488,17 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 // share grows with r, as it does for the greedy, pivot and top methods up
 // to rounding, and checks the answer it returns). It returns -1 when even
 // every document falls short.
-func smallestDocs(a *sparse.CSR, opts selection.Options, target float64) (int, error) {
-	m, _ := a.Dims()
+func smallestDocs(a *sparse.CSR, nd nearDups, opts selection.Options, target float64) (int, error) {
+	m, _ := nd.sel.Dims()
+	total := sparsemat.FrobeniusSq(a)
 	share := func(r int) (float64, error) {
 		o := opts
 		o.Rows = r
-		cur, err := selection.Select(a, o)
+		cur, err := nd.pick(a, o)
 		if err != nil {
 			return 0, err
 		}
-		return selection.RowSpaceSq(a, cur) / sparsemat.FrobeniusSq(a), nil
+		return selection.RowSpaceSq(a, cur) / total, nil
 	}
 	hi := m
 	s, err := share(hi)
