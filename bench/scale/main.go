@@ -21,6 +21,8 @@ import (
 	"strings"
 	"time"
 
+	"github.com/james-bowman/sparse"
+
 	"assay/bench/synth"
 	selection "assay/select"
 	"assay/sparsemat"
@@ -35,6 +37,7 @@ func main() {
 	runs := flag.Int("runs", 3, "timed runs (the median is reported)")
 	power := flag.Int("power-iters", sparsemat.DefaultPowerIters, "power iterations")
 	profile := flag.String("cpuprofile", "", "write a CPU profile of the timed runs to this file")
+	nearDup := flag.Bool("neardup", false, "also time the near-copy search: MinHash signatures of each row's column set and NearDuplicates at cosine 0.9")
 	flag.Parse()
 
 	t0 := time.Now()
@@ -55,6 +58,9 @@ func main() {
 		check(err)
 		check(pprof.StartCPUProfile(f))
 		defer pprof.StopCPUProfile()
+	}
+	if *nearDup {
+		timeNearDup(a)
 	}
 	debug.SetGCPercent(20) // as the command line does in its numerical phase
 	var svdT, selT, msrT, totalT []float64
@@ -104,6 +110,29 @@ func liveMiB() float64 {
 	var ms runtime.MemStats
 	runtime.ReadMemStats(&ms)
 	return float64(ms.HeapAlloc) / (1 << 20)
+}
+
+// timeNearDup times the signatures (here of each row's set of columns; the
+// command line hashes three-word shingles while it analyses) and the
+// candidate search with cosine confirmation.
+func timeNearDup(a *sparse.CSR) {
+	raw := a.RawMatrix()
+	m := raw.I
+	t0 := time.Now()
+	sig := make([]uint32, m*selection.MinHashes)
+	items := make([]uint64, 0, 256)
+	for i := range m {
+		items = items[:0]
+		for _, j := range raw.Ind[raw.Indptr[i]:raw.Indptr[i+1]] {
+			items = append(items, uint64(j))
+		}
+		selection.MinHash(sig[i*selection.MinHashes:(i+1)*selection.MinHashes], items, 1)
+	}
+	sigT := time.Since(t0)
+	t0 = time.Now()
+	clusters := selection.NearDuplicates(a, sig, 0.9)
+	fmt.Printf("near-copies: signatures %.2f s (one goroutine), search and cosine checks %.2f s, %d clusters\n",
+		sigT.Seconds(), time.Since(t0).Seconds(), len(clusters))
 }
 
 func median(v []float64) float64 {
