@@ -1,10 +1,14 @@
 package sparsemat
 
 import (
+	"encoding/binary"
 	"errors"
 	"fmt"
+	"runtime"
 	"slices"
-	"sort"
+	"strings"
+	"sync"
+	"sync/atomic"
 
 	"github.com/james-bowman/sparse"
 )
@@ -12,16 +16,67 @@ import (
 // ErrNoTerms is returned by [Builder.Build] when pruning leaves no term.
 var ErrNoTerms = errors.New("no terms left after pruning")
 
+// Vocabulary gives terms provisional IDs 0, 1, 2, … in the order they are
+// first asked for. It is safe for concurrent use, so that the goroutines
+// that analyse documents can turn terms into IDs themselves and hand the
+// [Builder] rows of IDs. The IDs depend on that order, and so on
+// scheduling; the matrix that [Builder.Build] makes does not, because it
+// orders the columns by term.
+type Vocabulary struct {
+	mu    sync.Mutex
+	ids   map[string]int32
+	terms []string
+}
+
+// ID returns the ID of term, giving it the next free one the first time.
+// The string is kept, not copied.
+func (v *Vocabulary) ID(term string) int32 {
+	v.mu.Lock()
+	id := v.idLocked(term)
+	v.mu.Unlock()
+	return id
+}
+
+func (v *Vocabulary) idLocked(term string) int32 {
+	id, ok := v.ids[term]
+	if !ok {
+		if v.ids == nil {
+			v.ids = make(map[string]int32)
+		}
+		if len(v.terms) == 1<<31-1 {
+			panic("sparsemat: more than 2³¹−1 terms")
+		}
+		id = int32(len(v.terms))
+		v.ids[term] = id
+		v.terms = append(v.terms, term)
+	}
+	return id
+}
+
+// Len returns the number of terms given an ID so far.
+func (v *Vocabulary) Len() int {
+	v.mu.Lock()
+	defer v.mu.Unlock()
+	return len(v.terms)
+}
+
 // Builder accumulates the term counts of documents, one row at a time.
-// The zero value is ready to use. It is not safe for concurrent use.
+// The zero value is ready to use. It is not safe for concurrent use, but
+// its [Vocabulary] is.
+//
+// Rows are kept compactly until [Builder.Build]: each entry as two
+// unsigned varints (the gap to the previous term ID of the row and the
+// count minus one), about 3 bytes where an int32 pair takes 8, in slabs
+// that are never copied to grow. Build decodes them, so adding a row costs
+// no more than writing it down.
 type Builder struct {
-	ids    map[string]int32 // term -> provisional ID (order first seen)
-	terms  []string         // provisional ID -> term
-	df     []int
-	rowPtr []int
-	cols   []int32
-	counts []int32
-	ent    []entry
+	vocab Vocabulary
+	slabs [][]byte // encoded rows; a row never spans two slabs
+	// rowAt[i] is where row i starts: slab index << 32 | byte offset;
+	// rowLen[i] its number of entries.
+	rowAt  []uint64
+	rowLen []int32
+	ent    []entry // scratch of AddRow
 }
 
 type entry struct {
@@ -29,38 +84,140 @@ type entry struct {
 	count int32
 }
 
+// slabSize is the size of an encoding slab. A row longer than a slab
+// gets a slab of its own.
+const slabSize = 1 << 20
+
+// Vocabulary returns the builder's vocabulary: the IDs that
+// [Builder.AddRowIDs] and [Builder.AddCounted] take.
+func (b *Builder) Vocabulary() *Vocabulary { return &b.vocab }
+
 // AddRow adds one document with its term counts. Counts of zero or less
 // are ignored.
 func (b *Builder) AddRow(counts map[string]int) {
-	if b.ids == nil {
-		b.ids = make(map[string]int32)
-		b.rowPtr = []int{0}
-	}
 	b.ent = b.ent[:0]
+	b.vocab.mu.Lock()
 	for t, c := range counts {
-		if c <= 0 {
-			continue
+		if c > 0 {
+			b.ent = append(b.ent, entry{b.vocab.idLocked(t), int32(min(c, 1<<31-1))})
 		}
-		id, ok := b.ids[t]
-		if !ok {
-			id = int32(len(b.terms))
-			b.ids[t] = id
-			b.terms = append(b.terms, t)
-			b.df = append(b.df, 0)
-		}
-		b.df[id]++
-		b.ent = append(b.ent, entry{id, int32(min(c, 1<<31-1))})
 	}
+	b.vocab.mu.Unlock()
 	slices.SortFunc(b.ent, func(x, y entry) int { return int(x.id - y.id) })
+	dst := b.reserve(len(b.ent))
+	prev := int32(-1)
 	for _, e := range b.ent {
-		b.cols = append(b.cols, e.id)
-		b.counts = append(b.counts, e.count)
+		dst = binary.AppendUvarint(dst, uint64(e.id-prev-1))
+		dst = binary.AppendUvarint(dst, uint64(e.count-1))
+		prev = e.id
 	}
-	b.rowPtr = append(b.rowPtr, len(b.cols))
+	b.commit(dst, len(b.ent))
+}
+
+// AddRowIDs adds one document given by the IDs of its terms in the
+// builder's [Vocabulary], in strictly increasing order, and their counts,
+// each at least 1. It panics if the IDs are not increasing or not in the
+// vocabulary, or a count is less than 1.
+func (b *Builder) AddRowIDs(cols, counts []int32) {
+	if len(cols) != len(counts) {
+		panic("sparsemat: AddRowIDs with columns and counts of different lengths")
+	}
+	if n := len(cols); n > 0 && int(cols[n-1]) >= b.vocab.Len() {
+		panic("sparsemat: AddRowIDs with a term ID outside the vocabulary")
+	}
+	dst := b.reserve(len(cols))
+	prev := int32(-1)
+	for k, id := range cols {
+		if id <= prev || counts[k] < 1 {
+			panic("sparsemat: AddRowIDs with columns out of order or a count below 1")
+		}
+		dst = binary.AppendUvarint(dst, uint64(id-prev-1))
+		dst = binary.AppendUvarint(dst, uint64(counts[k]-1))
+		prev = id
+	}
+	b.commit(dst, len(cols))
+}
+
+// AddCounted adds the row that a [RowCounter] made. The IDs must come
+// from the builder's [Vocabulary].
+func (b *Builder) AddCounted(r Row) {
+	if r.maxID >= 0 && int(r.maxID) >= b.vocab.Len() {
+		panic("sparsemat: AddCounted with a term ID outside the vocabulary")
+	}
+	dst := b.reserve(int(r.n))
+	dst = append(dst, r.enc...)
+	b.commit(dst, int(r.n))
+}
+
+// reserve returns the current slab with room for a row of n entries
+// (at most 10 bytes each), starting a new slab when needed.
+func (b *Builder) reserve(n int) []byte {
+	need := 10 * n
+	if len(b.slabs) == 0 || cap(b.slabs[len(b.slabs)-1])-len(b.slabs[len(b.slabs)-1]) < need {
+		b.slabs = append(b.slabs, make([]byte, 0, max(slabSize, need)))
+	}
+	s := len(b.slabs) - 1
+	b.rowAt = append(b.rowAt, uint64(s)<<32|uint64(len(b.slabs[s])))
+	return b.slabs[s]
+}
+
+// commit records the row just written into the current slab.
+func (b *Builder) commit(slab []byte, n int) {
+	b.slabs[len(b.slabs)-1] = slab
+	b.rowLen = append(b.rowLen, int32(n))
 }
 
 // Rows returns the number of rows added so far.
-func (b *Builder) Rows() int { return max(len(b.rowPtr)-1, 0) }
+func (b *Builder) Rows() int { return len(b.rowLen) }
+
+// decodeRow appends the entries of row i, in order of provisional ID, to
+// buf.
+func (b *Builder) decodeRow(i int, buf []entry) []entry {
+	slab := b.slabs[b.rowAt[i]>>32]
+	p := int(uint32(b.rowAt[i]))
+	id := int32(-1)
+	for range b.rowLen[i] {
+		gap, n := binary.Uvarint(slab[p:])
+		p += n
+		c, n := binary.Uvarint(slab[p:])
+		p += n
+		id += int32(gap) + 1
+		buf = append(buf, entry{id, int32(c) + 1})
+	}
+	return buf
+}
+
+// buildBlockRows is the number of rows a goroutine of Build takes at a
+// time. Each row is computed by one goroutine on its own, so the split
+// changes only the speed, never the result.
+const buildBlockRows = 1024
+
+// parallelRows calls fn(lo, hi, worker) for blocks of rows [lo, hi) on up
+// to GOMAXPROCS goroutines; worker numbers the goroutine from 0.
+func (b *Builder) parallelRows(fn func(lo, hi, worker int)) int {
+	m := b.Rows()
+	blocks := (m + buildBlockRows - 1) / buildBlockRows
+	workers := max(min(runtime.GOMAXPROCS(0), blocks), 1)
+	if workers == 1 {
+		fn(0, m, 0)
+		return 1
+	}
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for w := range workers {
+		wg.Go(func() {
+			for {
+				k := int(next.Add(1) - 1)
+				if k >= blocks {
+					return
+				}
+				fn(k*buildBlockRows, min((k+1)*buildBlockRows, m), w)
+			}
+		})
+	}
+	wg.Wait()
+	return workers
+}
 
 // Pruning says which terms to keep by document frequency.
 type Pruning struct {
@@ -96,7 +253,7 @@ type Counts struct {
 // Build prunes the vocabulary and returns the count matrix. Documents left
 // with no term are dropped from the matrix and listed in EmptyRows. It
 // returns [ErrNoTerms] when no term survives, and an error for an invalid
-// Pruning.
+// Pruning. The builder is unchanged and can be built again.
 func (b *Builder) Build(p Pruning) (*Counts, error) {
 	m := b.Rows()
 	if p.MaxDFShare == 0 {
@@ -108,64 +265,185 @@ func (b *Builder) Build(p Pruning) (*Counts, error) {
 	if p.MinDF < 0 {
 		return nil, fmt.Errorf("min-df %d is negative", p.MinDF)
 	}
+	b.vocab.mu.Lock()
+	terms := b.vocab.terms
+	b.vocab.mu.Unlock()
+
+	// Document frequencies, from the rows themselves: each goroutine
+	// counts into its own array, and the arrays are summed.
+	procs := runtime.GOMAXPROCS(0)
+	dfs := make([][]int32, procs)
+	used := b.parallelRows(func(lo, hi, w int) {
+		if dfs[w] == nil {
+			dfs[w] = make([]int32, len(terms))
+		}
+		var buf []entry
+		for i := lo; i < hi; i++ {
+			buf = b.decodeRow(i, buf[:0])
+			for _, e := range buf {
+				dfs[w][e.id]++
+			}
+		}
+	})
+	df := dfs[0]
+	if df == nil {
+		df = make([]int32, len(terms))
+	}
+	for w := 1; w < used; w++ {
+		for id, d := range dfs[w] {
+			df[id] += d
+		}
+		dfs[w] = nil
+	}
 	maxDF := int(p.MaxDFShare * float64(m)) // floor, as scikit-learn does
-	keep := make([]int32, 0, len(b.terms))
-	for id := range b.terms {
-		if d := b.df[id]; d >= p.MinDF && d <= maxDF {
-			keep = append(keep, int32(id))
+	type kept struct {
+		term string
+		id   int32
+	}
+	keep := make([]kept, 0, len(terms)/2)
+	vocabSize := 0
+	for id, d := range df {
+		if d == 0 {
+			continue // given an ID but in no row
+		}
+		vocabSize++
+		if int(d) >= p.MinDF && int(d) <= maxDF {
+			keep = append(keep, kept{terms[id], int32(id)})
 		}
 	}
-	sort.Slice(keep, func(i, j int) bool { return b.terms[keep[i]] < b.terms[keep[j]] })
 	if len(keep) == 0 {
 		return nil, ErrNoTerms
 	}
-	newID := make([]int32, len(b.terms))
+	slices.SortFunc(keep, func(x, y kept) int { return strings.Compare(x.term, y.term) })
+	newID := make([]int32, len(terms))
 	for i := range newID {
 		newID[i] = -1
 	}
 	c := &Counts{
 		Terms:          make([]string, len(keep)),
 		DF:             make([]int, len(keep)),
-		VocabularySize: len(b.terms),
+		VocabularySize: vocabSize,
 		Documents:      m,
 	}
-	for j, id := range keep {
-		newID[id] = int32(j)
-		c.Terms[j] = b.terms[id]
-		c.DF[j] = b.df[id]
-	}
 	nnz := 0
-	for _, id := range b.cols {
-		if newID[id] >= 0 {
-			nnz++
-		}
+	for j, k := range keep {
+		newID[k.id] = int32(j)
+		c.Terms[j] = k.term
+		c.DF[j] = int(df[k.id])
+		nnz += int(df[k.id])
 	}
-	ia := make([]int, 1, m+1)
-	ja := make([]int, 0, nnz)
-	data := make([]float64, 0, nnz)
-	var row []entry
-	for i := range m {
-		row = row[:0]
-		for k := b.rowPtr[i]; k < b.rowPtr[i+1]; k++ {
-			if j := newID[b.cols[k]]; j >= 0 {
-				row = append(row, entry{j, b.counts[k]})
+	keep, df = nil, nil
+
+	// The kept entries of each row give the row pointers; then each row
+	// is remapped, sorted and written in its place.
+	rowNNZ := make([]int32, m)
+	b.parallelRows(func(lo, hi, _ int) {
+		var buf []entry
+		for i := lo; i < hi; i++ {
+			buf = b.decodeRow(i, buf[:0])
+			n := int32(0)
+			for _, e := range buf {
+				if newID[e.id] >= 0 {
+					n++
+				}
 			}
+			rowNNZ[i] = n
 		}
-		if len(row) == 0 {
+	})
+	start := make([]int, m) // offset of each row's entries in ja
+	ia := make([]int, 1, m+1)
+	for i, n := range rowNNZ {
+		start[i] = ia[len(ia)-1]
+		if n == 0 {
 			c.EmptyRows = append(c.EmptyRows, i)
 			continue
 		}
-		slices.SortFunc(row, func(x, y entry) int { return int(x.id - y.id) })
-		for _, e := range row {
-			ja = append(ja, int(e.id))
-			data = append(data, float64(e.count))
-		}
-		ia = append(ia, len(ja))
+		ia = append(ia, start[i]+int(n))
 		c.Rows = append(c.Rows, i)
 	}
+	rowNNZ = nil
 	if len(c.Rows) == 0 {
 		return nil, ErrNoTerms
 	}
-	c.Matrix = sparse.NewCSR(len(c.Rows), len(keep), ia, ja, data)
+	ja := make([]int, nnz)
+	data := make([]float64, nnz)
+	b.parallelRows(func(lo, hi, _ int) {
+		var buf []entry
+		var packed []uint64 // new ID << 32 | count, sorted
+		for i := lo; i < hi; i++ {
+			buf = b.decodeRow(i, buf[:0])
+			packed = packed[:0]
+			for _, e := range buf {
+				if j := newID[e.id]; j >= 0 {
+					packed = append(packed, uint64(j)<<32|uint64(uint32(e.count)))
+				}
+			}
+			slices.Sort(packed)
+			k := start[i]
+			for _, v := range packed {
+				ja[k] = int(v >> 32)
+				data[k] = float64(uint32(v))
+				k++
+			}
+		}
+	})
+	c.Matrix = sparse.NewCSR(len(c.Rows), len(c.Terms), ia, ja, data)
 	return c, nil
+}
+
+// Row is one document's term counts as a [RowCounter] encodes them for
+// [Builder.AddCounted]: compact, and owned by whoever holds it.
+type Row struct {
+	enc   []byte
+	n     int32 // entries
+	maxID int32 // -1 for an empty row
+}
+
+// Len returns the number of distinct terms in the row.
+func (r Row) Len() int { return int(r.n) }
+
+// RowCounter counts the term IDs of one document at a time and encodes
+// them as a [Row], so that the goroutine that analyses a document can do
+// the counting and sorting and the one that owns the [Builder] only
+// copies bytes. Its zero value is ready; it is not safe for concurrent
+// use (give each goroutine its own).
+type RowCounter struct {
+	count []int32 // by term ID; zero outside the current row
+	ids   []int32 // the row's distinct IDs
+}
+
+// Add counts one occurrence of the term with ID id (at least 0).
+func (c *RowCounter) Add(id int32) {
+	if int(id) >= len(c.count) {
+		c.count = append(c.count, make([]int32, max(int(id)+1-len(c.count), len(c.count)/2, 1024))...)
+	}
+	if c.count[id] == 0 {
+		c.ids = append(c.ids, id)
+	}
+	c.count[id]++
+}
+
+// AddAll counts every ID of ids.
+func (c *RowCounter) AddAll(ids []int32) {
+	for _, id := range ids {
+		c.Add(id)
+	}
+}
+
+// Row returns the counted row, encoded in a new buffer, and starts a new
+// one.
+func (c *RowCounter) Row() Row {
+	slices.Sort(c.ids)
+	enc := make([]byte, 0, 3*len(c.ids)+8)
+	prev := int32(-1)
+	for _, id := range c.ids {
+		n := c.count[id]
+		c.count[id] = 0
+		enc = binary.AppendUvarint(enc, uint64(id-prev-1))
+		enc = binary.AppendUvarint(enc, uint64(n-1))
+		prev = id
+	}
+	r := Row{enc: enc, n: int32(len(c.ids)), maxID: prev}
+	c.ids = c.ids[:0]
+	return r
 }

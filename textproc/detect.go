@@ -156,6 +156,13 @@ func detect(t *tokenizer) Detection {
 		}
 	}
 
+	return decide(&stops, &marks, nLatin, nCyril)
+}
+
+// decide applies steps 1 (the choice of script), 3 and 4 of the detection
+// rule to the counts of a document: the stop words and marked words of
+// each candidate, and the pieces of each script.
+func decide(stops, marks *[numStemmed]int, nLatin, nCyril int) Detection {
 	d := Detection{Lang: Undetermined}
 	cand, n := latinCandidates, nLatin
 	if nCyril > nLatin {

@@ -92,6 +92,8 @@ type tokenizer struct {
 	gbuf   []byte
 	gcut   []int
 	gclass gramClass
+	// lower writes ASCII capitals in lower case (see run).
+	lower bool
 }
 
 // reset empties the token list, keeping the buffers.
@@ -141,26 +143,87 @@ func (t *tokenizer) flushGram() {
 	t.gclass = gramNone
 }
 
+// ASCII character classes of the tokenizer's fast path.
+const (
+	asciiSep   uint8 = iota // ends a token: space, punctuation, control
+	asciiDigit              // 0-9
+	asciiLower              // a-z
+	asciiUpper              // A-Z
+	asciiApos               // ', which needs a look at the next character
+)
+
+// asciiClass is the class of each ASCII byte.
+var asciiClass = func() (c [utf8.RuneSelf]uint8) {
+	for b := '0'; b <= '9'; b++ {
+		c[b] = asciiDigit
+	}
+	for b := 'a'; b <= 'z'; b++ {
+		c[b] = asciiLower
+		c[b-'a'+'A'] = asciiUpper
+	}
+	c['\''] = asciiApos
+	return c
+}()
+
 // run appends the tokens of text by the rule of the package documentation.
+// ASCII letters, digits and separators take a fast path; everything else
+// (the apostrophes, and every character outside ASCII) goes through the
+// Unicode tables. With t.lower set, ASCII capitals are written in lower
+// case, which is all that case folding does to ASCII: the analyzer sets it
+// to tokenise ASCII text without normalising it first.
 func (t *tokenizer) run(text string) {
 	for i := 0; i < len(text); {
+		if c := text[i]; c < utf8.RuneSelf {
+			switch asciiClass[c] {
+			case asciiSep:
+				t.flushWord()
+				if t.gclass != gramNone {
+					t.flushGram()
+				}
+				i++
+				continue
+			case asciiDigit, asciiLower, asciiUpper:
+				// The common case: a run of ASCII letters and digits,
+				// copied at once.
+				if t.gclass != gramNone {
+					t.flushGram()
+				}
+				if !t.inWord {
+					t.inWord, t.wstart, t.wscript = true, len(t.arena), scriptNone
+				}
+				j, seen := i, uint8(0)
+				for ; j < len(text); j++ {
+					k := text[j]
+					if k >= utf8.RuneSelf {
+						break
+					}
+					cl := asciiClass[k]
+					if cl < asciiDigit || cl > asciiUpper {
+						break
+					}
+					seen |= 1 << cl
+				}
+				if t.wscript == scriptNone && seen&(1<<asciiLower|1<<asciiUpper) != 0 {
+					t.wscript = scriptLatin
+				}
+				start := len(t.arena)
+				t.arena = append(t.arena, text[i:j]...)
+				if t.lower && seen&(1<<asciiUpper) != 0 {
+					for k, b := range t.arena[start:] {
+						if 'A' <= b && b <= 'Z' {
+							t.arena[start+k] = b + ('a' - 'A')
+						}
+					}
+				}
+				i = j
+				continue
+			}
+		}
 		r, size := rune(text[i]), 1
 		if r >= utf8.RuneSelf {
 			r, size = utf8.DecodeRuneInString(text[i:])
 		}
 		switch {
-		case r < utf8.RuneSelf && ('a' <= r && r <= 'z' || '0' <= r && r <= '9' || 'A' <= r && r <= 'Z'):
-			// The common case, ahead of the Unicode tables.
-			if t.gclass != gramNone {
-				t.flushGram()
-			}
-			if !t.inWord {
-				t.inWord, t.wstart, t.wscript = true, len(t.arena), scriptNone
-			}
-			if t.wscript == scriptNone && r >= 'A' {
-				t.wscript = scriptLatin
-			}
-			t.arena = append(t.arena, byte(r))
 		case isApostrophe(r):
 			// Checked before the letter test: U+02BC is a letter (Lm).
 			next, _ := utf8.DecodeRuneInString(text[i+size:])

@@ -44,6 +44,11 @@ type analysed struct {
 	sig    []uint32 // MinHash signature of the word shingles (nil when near-copies are not looked for)
 }
 
+// minHashSeed seeds the MinHash functions of the near-copy search. It is a
+// constant, not --seed: a signature belongs to the document, like its term
+// counts, so it can be kept in an index and reused by picks with any seed.
+const minHashSeed = 0x5a55a1
+
 // shingleLength is the number of consecutive terms in a word shingle.
 const shingleLength = 3
 
@@ -105,7 +110,7 @@ func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, erro
 			})
 			if opts.NearDup > 0 {
 				r.sig = make([]uint32, selection.MinHashes)
-				selection.MinHash(r.sig, shingles(seq), opts.Seed)
+				selection.MinHash(r.sig, shingles(seq), minHashSeed)
 			}
 			return r
 		}
