@@ -86,16 +86,31 @@ var errNoDocuments = errors.New("no readable documents")
 // analyze walks fsys, analyses each document as it is read (the text is
 // dropped straight after), and builds the pruned count matrix.
 func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, error) {
-	an := &analysis{}
-	var b sparsemat.Builder
-	var fp corpus.Fingerprint
 	readOpts := opts.Read
 	readOpts.MaxBytes = opts.MaxBytes
-	azOpts := textproc.Options{MinLength: opts.MinLen, KeepNumbers: opts.Numbers, NoStem: opts.NoStem, Lang: opts.Lang}
+	col := &collector{an: &analysis{}, opts: opts}
 	// Each worker reads, extracts and analyses documents with its own
-	// analyzer; the collector below gets the results in walk order, so
-	// the matrix does not depend on --jobs.
-	newWorker := func() func(corpus.Document) analysed {
+	// analyzer; the collector gets the results in walk order, so the
+	// matrix does not depend on --jobs.
+	skips, err := corpus.WalkParallel(fsys, readOpts, opts.Jobs, docWorker(opts), func(d corpus.Document, r analysed) error {
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		col.add(d, r)
+		return nil
+	})
+	if err != nil {
+		return nil, fmt.Errorf("read %s: %w", opts.Source, err)
+	}
+	return col.finish(skips, col.fp.String())
+}
+
+// docWorker returns the constructor of the per-worker analysis function:
+// term counts, surface forms, language and the MinHash signature of a
+// document's word shingles.
+func docWorker(opts pickOptions) func() func(corpus.Document) analysed {
+	azOpts := textproc.Options{MinLength: opts.MinLen, KeepNumbers: opts.Numbers, NoStem: opts.NoStem, Lang: opts.Lang}
+	return func() func(corpus.Document) analysed {
 		az := textproc.NewAnalyzer(azOpts)
 		var seq []uint64
 		return func(d corpus.Document) analysed {
@@ -104,38 +119,43 @@ func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, erro
 			r.lang = az.Analyze(d.Text, func(term, surface string) {
 				r.counts[term]++
 				r.forms[[2]string{term, surface}]++
-				if opts.NearDup > 0 {
-					seq = append(seq, fnv64(term))
-				}
+				seq = append(seq, fnv64(term))
 			})
-			if opts.NearDup > 0 {
-				r.sig = make([]uint32, selection.MinHashes)
-				selection.MinHash(r.sig, shingles(seq), minHashSeed)
-			}
+			r.sig = make([]uint32, selection.MinHashes)
+			selection.MinHash(r.sig, shingles(seq), minHashSeed)
 			return r
 		}
 	}
-	skips, err := corpus.WalkParallel(fsys, readOpts, opts.Jobs, newWorker, func(d corpus.Document, r analysed) error {
-		if err := ctx.Err(); err != nil {
-			return err
-		}
-		b.AddRow(r.counts)
-		for f, n := range r.forms {
-			an.display.AddN(f[0], f[1], n)
-		}
-		fp.Add(&d)
-		if opts.progress != nil {
-			opts.progress()
-		}
-		an.docs = append(an.docs, docInfo{ID: d.ID, Title: d.Title, Size: d.Size, Repaired: d.Repaired, Format: d.Format, Meta: d.Meta, Lang: r.lang})
-		an.sigs = append(an.sigs, r.sig...)
-		return nil
-	})
-	if err != nil {
-		return nil, fmt.Errorf("read %s: %w", opts.Source, err)
+}
+
+// collector gathers the analysed documents, in walk order, into the count
+// matrix and the per-document record a pick needs.
+type collector struct {
+	an   *analysis
+	opts pickOptions
+	b    sparsemat.Builder
+	fp   corpus.Fingerprint
+}
+
+// add records one document (its Text is not needed).
+func (c *collector) add(d corpus.Document, r analysed) {
+	c.b.AddRow(r.counts)
+	for f, n := range r.forms {
+		c.an.display.AddN(f[0], f[1], n)
 	}
+	c.fp.Add(&d)
+	if c.opts.progress != nil {
+		c.opts.progress()
+	}
+	c.an.docs = append(c.an.docs, docInfo{ID: d.ID, Title: d.Title, Size: d.Size, Repaired: d.Repaired, Format: d.Format, Meta: d.Meta, Lang: r.lang})
+	c.an.sigs = append(c.an.sigs, r.sig...)
+}
+
+// finish prunes the vocabulary and builds the count matrix.
+func (c *collector) finish(skips []corpus.Skip, fingerprint string) (*analysis, error) {
+	an, opts := c.an, c.opts
 	an.skips = skips
-	an.fingerprint = fp.String()
+	an.fingerprint = fingerprint
 	if len(an.docs) == 0 {
 		return nil, fmt.Errorf("%s: %w (%d files skipped)", opts.Source, errNoDocuments, len(skips))
 	}
@@ -146,15 +166,15 @@ func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, erro
 			an.minDF = 2
 		}
 	}
-	c, err := b.Build(sparsemat.Pruning{MinDF: an.minDF, MaxDFShare: opts.MaxDF})
+	counts, err := c.b.Build(sparsemat.Pruning{MinDF: an.minDF, MaxDFShare: opts.MaxDF})
 	if errors.Is(err, sparsemat.ErrNoTerms) {
 		return nil, fmt.Errorf("%s: no terms left after analysis and pruning (%d documents, min-df %d, max-df %g); try --min-df 1 or a larger --max-df", opts.Source, len(an.docs), an.minDF, opts.MaxDF)
 	}
 	if err != nil {
 		return nil, fmt.Errorf("build matrix: %w", err)
 	}
-	an.counts = c
-	for _, i := range c.EmptyRows {
+	an.counts = counts
+	for _, i := range counts.EmptyRows {
 		an.skips = append(an.skips, corpus.Skip{Path: an.docs[i].ID, Reason: "no terms left after analysis and pruning"})
 	}
 	return an, nil
