@@ -296,7 +296,7 @@ func TestExitCodes(t *testing.T) {
 		{"empty folder", []string{"pick", empty}, exitFailure, "no readable documents"},
 		{"only bad files", []string{"pick", onlyBad}, exitFailure, "2 files skipped"},
 		{"missing folder", []string{"pick", filepath.Join(empty, "nope")}, exitFailure, "no such file"},
-		{"file not folder", []string{"pick", filepath.Join(good, "kitchen", "bread.txt")}, exitFailure, "not a folder"},
+		{"file that is not a store", []string{"pick", filepath.Join(good, "kitchen", "bread.txt")}, exitFailure, "not an assay store"},
 		{"no argument", []string{"pick"}, exitUsage, "one folder"},
 		{"unknown flag", []string{"pick", good, "--nope"}, exitUsage, "unknown flag"},
 		{"bad format", []string{"pick", good, "--format", "xml"}, exitUsage, "allowed: text, json"},

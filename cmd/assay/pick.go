@@ -7,7 +7,6 @@ import (
 	"io"
 	"io/fs"
 	"os"
-	"runtime"
 	"slices"
 	"strconv"
 	"strings"
@@ -168,7 +167,7 @@ func (f *pickFlags) registerAnalysis(fl *pflag.FlagSet) {
 	fl.IntVar(&f.minLen, "min-length", 2, "shortest token kept, in characters")
 	fl.BoolVar(&f.numbers, "keep-numbers", false, "keep tokens made only of digits")
 	fl.BoolVar(&f.noStem, "no-stem", false, "do not stem: every word is its own term")
-	fl.IntVar(&f.jobs, "jobs", runtime.GOMAXPROCS(0), "goroutines that read and analyse documents (the output does not depend on it)")
+	fl.IntVar(&f.jobs, "jobs", defaultJobs(), "goroutines that read and analyse documents (the output does not depend on it)")
 	fl.StringVar(&f.lang, "lang", "auto", "language of the documents: auto (detected per document), english, french, spanish, russian, swedish, norwegian, hungarian, or und (none: no stemming)")
 }
 
@@ -289,6 +288,9 @@ seed, options and a fingerprint of the input, so the run can be repeated.
 			if err != nil {
 				return err
 			}
+			if isStore(args[0]) {
+				return runPickStore(cmd.Context(), app, args[0], opts)
+			}
 			fsys, err := openFolder(args[0])
 			if err != nil {
 				return err
@@ -341,7 +343,21 @@ func runPick(ctx context.Context, app *App, fsys fs.FS, opts pickOptions) error 
 	if err != nil {
 		return err
 	}
-	read := time.Since(start)
+	return report(app, an, opts, time.Since(start))
+}
+
+// runPickStore picks from an index made by assay index.
+func runPickStore(ctx context.Context, app *App, path string, opts pickOptions) error {
+	start := time.Now()
+	an, err := loadStore(ctx, path, opts)
+	if err != nil {
+		return err
+	}
+	return report(app, an, opts, time.Since(start))
+}
+
+// report picks on an analysed corpus and writes the report.
+func report(app *App, an *analysis, opts pickOptions, read time.Duration) error {
 	rep, err := pick(an, opts, app.Version)
 	if err != nil {
 		return err

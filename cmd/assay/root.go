@@ -101,7 +101,7 @@ Exit codes: 0 success, 1 failure (for example no readable documents),
 	root.SetOut(app.Out)
 	root.SetErr(app.Err)
 	root.SetFlagErrorFunc(func(_ *cobra.Command, err error) error { return usageError{err} })
-	root.AddCommand(newPickCmd(app), newDemoCmd(app), newExportCmd(app))
+	root.AddCommand(newPickCmd(app), newDemoCmd(app), newExportCmd(app), newIndexCmd(app))
 	return root
 }
 
