@@ -2,7 +2,6 @@ package main
 
 import (
 	"bufio"
-	"context"
 	"fmt"
 	"io/fs"
 	"os"
@@ -18,10 +17,10 @@ func newExportCmd(app *App) *cobra.Command {
 	var f pickFlags
 	var format, out string
 	cmd := &cobra.Command{
-		Use:   "export FOLDER --out PREFIX",
+		Use:   "export FOLDER|FILE.assay --out PREFIX",
 		Short: "Write the weighted document-term matrix of a folder to files",
-		Long: `export reads FOLDER exactly as pick does and writes the TF-IDF matrix it would
-pick from, for use in other tools:
+		Long: `export reads FOLDER exactly as pick does (or an index made by assay index) and
+writes the TF-IDF matrix it would pick from, for use in other tools:
 
   PREFIX.mtx        the matrix in Matrix Market coordinate format (real, general;
                     1-based row and column indices; rows are documents, columns terms)
@@ -51,11 +50,19 @@ are kept as separate rows.`,
 			if err != nil {
 				return err
 			}
-			fsys, err := openFolder(args[0])
+			var an *analysis
+			if isStore(args[0]) {
+				an, err = loadStore(cmd.Context(), args[0], opts)
+			} else {
+				var fsys fs.FS
+				if fsys, err = openFolder(args[0]); err == nil {
+					an, err = analyze(cmd.Context(), fsys, opts)
+				}
+			}
 			if err != nil {
 				return err
 			}
-			return runExport(cmd.Context(), app, fsys, opts, out)
+			return runExport(app, an, opts, out)
 		},
 	}
 	cmd.Flags().StringVar(&format, "format", "mtx", "output format: mtx (Matrix Market)")
@@ -64,12 +71,8 @@ are kept as separate rows.`,
 	return cmd
 }
 
-// runExport analyses the folder and writes the three files.
-func runExport(ctx context.Context, app *App, fsys fs.FS, opts pickOptions, prefix string) error {
-	an, err := analyze(ctx, fsys, opts)
-	if err != nil {
-		return err
-	}
+// runExport writes the three files of an analysed corpus.
+func runExport(app *App, an *analysis, opts pickOptions, prefix string) error {
 	a := sparsemat.Weight(an.counts, opts.Weight)
 	comment := fmt.Sprintf(" assay export: %s; %s; min-df %d, max-df %g; input %s", opts.Source, opts.Weight, an.minDF, opts.MaxDF, an.fingerprint)
 	if err := writeFile(prefix+".mtx", func(w *bufio.Writer) error {

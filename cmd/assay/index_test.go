@@ -51,3 +51,30 @@ func TestPickFromStore(t *testing.T) {
 		t.Errorf("after adding a file: %q", out)
 	}
 }
+
+// export from an index writes the same files as export from the folder.
+func TestExportFromStore(t *testing.T) {
+	dir := writeTree(t, smallCorpus)
+	st := filepath.Join(t.TempDir(), "s.assay")
+	if code, _, stderr := run(t, "index", dir, "--store", st); code != exitOK {
+		t.Fatal(stderr)
+	}
+	out := t.TempDir()
+	run(t, "export", dir, "--out", filepath.Join(out, "dir"))
+	run(t, "export", st, "--out", filepath.Join(out, "st"))
+	for _, ext := range []string{".terms.tsv", ".docs.tsv", ".mtx"} {
+		a, _ := os.ReadFile(filepath.Join(out, "dir"+ext))
+		b, _ := os.ReadFile(filepath.Join(out, "st"+ext))
+		if ext == ".mtx" { // the comment line names the input
+			a, b = dropLine(a, 1), dropLine(b, 1)
+		}
+		if len(a) == 0 || string(a) != string(b) {
+			t.Errorf("%s differs between the folder and the store", ext)
+		}
+	}
+}
+
+func dropLine(b []byte, n int) []byte {
+	lines := strings.SplitN(string(b), "\n", n+2)
+	return []byte(strings.Join(append(lines[:n], lines[n+1:]...), "\n"))
+}

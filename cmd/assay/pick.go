@@ -264,7 +264,7 @@ const pickExamples = `  assay pick ./reports
 func newPickCmd(app *App) *cobra.Command {
 	var f pickFlags
 	cmd := &cobra.Command{
-		Use:   "pick FOLDER",
+		Use:   "pick FOLDER|FILE.assay",
 		Short: "Pick exemplar documents and key terms of a folder",
 		Long: `pick reads every .txt, .text, .md and .rst file below FOLDER (hidden files and
 folders are skipped), builds a stemmed TF-IDF matrix, picks documents and
