@@ -53,6 +53,13 @@ func (v *Vocabulary) idLocked(term string) int32 {
 	return id
 }
 
+// Term returns the term with ID id. It panics if no term has that ID.
+func (v *Vocabulary) Term(id int32) string {
+	v.mu.Lock()
+	defer v.mu.Unlock()
+	return v.terms[id]
+}
+
 // Len returns the number of terms given an ID so far.
 func (v *Vocabulary) Len() int {
 	v.mu.Lock()

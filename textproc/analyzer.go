@@ -2,11 +2,14 @@ package textproc
 
 import (
 	"fmt"
+	"math/bits"
+	"slices"
 	"strings"
 	"unicode"
 	"unicode/utf8"
 
 	"golang.org/x/text/cases"
+	"golang.org/x/text/transform"
 	"golang.org/x/text/unicode/norm"
 )
 
@@ -31,6 +34,13 @@ type Options struct {
 	// NoMemo turns the memo off: every token is analysed (and stemmed)
 	// afresh. For benchmarks; the terms are the same.
 	NoMemo bool
+	// TermID numbers index terms for [Analyzer.AnalyzeIDs], which calls
+	// it once for each distinct token the analyzer keeps (with the memo
+	// on) and reports the number it returns. It must return the same
+	// number for the same term; it may be shared by analyzers in several
+	// goroutines if it is safe for concurrent use (sparsemat.Vocabulary's
+	// ID is). Nil is allowed when AnalyzeIDs is not used.
+	TermID func(term string) int32
 }
 
 // Analyzer turns text into index terms. Build one with [NewAnalyzer]; it is
@@ -40,16 +50,47 @@ type Analyzer struct {
 	fixed int // index in langTable of Options.Lang, or -1 to detect
 	fold  cases.Caser
 	tok   tokenizer
-	memo  [numLangs]map[string]memoEntry // per language: folded token -> its analysis
-	grams map[string]memoEntry           // bigram -> its term
-	last  Detection
+	// Scratch buffers of normalisation, reused from one document to the
+	// next.
+	nfc, folded []byte
+	last        Detection
+
+	// The memo (nil maps with Options.NoMemo). Every distinct word token
+	// has a tokMemo, found with one look-up, that holds its detection
+	// facts and where its analysis in each language it was seen in is
+	// kept; every analysis is an entry. Bigrams go straight to an entry.
+	words   map[string]int32 // folded word token -> index in toks
+	toks    []tokMemo
+	more    map[uint64]int32 // token index << 8 | language -> entry, past two languages
+	multi   [][numStemmed]int32
+	grams   map[string]int32 // bigram -> index in entries
+	entries []memoEntry
+	at      []int32 // per token of the current document: its toks (word) or entries (bigram) index
+
+	// The surface forms counted by AnalyzeIDs without the memo.
+	forms map[[2]string]int
 }
 
-// memoEntry is the analysis of one distinct token. term and surface are
-// the memo's own strings, so that callers never see the scratch buffer.
+// tokMemo is the memo of one distinct word token.
+type tokMemo struct {
+	key    string // the token, the memo's own copy
+	pieces int32  // detection: pieces between apostrophes
+	multi  int32  // detection: 1 + index in Analyzer.multi of the stop counts of a token of several pieces; 0 when stops holds them
+	stops  uint8  // detection: the candidates whose stop list holds the token (one piece)
+	marks  uint8  // detection: the candidates a letter of the token marks
+	nres   uint8  // languages analysed in: how many of lang, res are set (more go to Analyzer.more)
+	lang   [2]uint8
+	res    [2]int32 // index in entries of the analysis in lang[i]
+}
+
+// memoEntry is the analysis of one distinct token in one language. term
+// and surface are the memo's own strings, so that callers never see the
+// scratch buffer.
 type memoEntry struct {
 	term    string // "" when the token is dropped
 	surface string
+	id      int32 // Options.TermID(term), for AnalyzeIDs; -1 until asked
+	n       int32 // occurrences counted by AnalyzeIDs since AddFormsTo
 }
 
 // NewAnalyzer returns an analyzer configured by opts. It panics if
@@ -59,6 +100,7 @@ func NewAnalyzer(opts Options) *Analyzer {
 		opts.MinLength = DefaultMinLength
 	}
 	a := &Analyzer{opts: opts, fixed: -1, fold: cases.Fold()}
+	a.tok.lower = true
 	if opts.Lang != "" && opts.Lang != Auto {
 		i, ok := langIndex(opts.Lang)
 		if !ok {
@@ -67,10 +109,8 @@ func NewAnalyzer(opts Options) *Analyzer {
 		a.fixed = i
 	}
 	if !opts.NoMemo {
-		for i := range a.memo {
-			a.memo[i] = make(map[string]memoEntry)
-		}
-		a.grams = make(map[string]memoEntry)
+		a.words = make(map[string]int32)
+		a.grams = make(map[string]int32)
 	}
 	return a
 }
@@ -81,6 +121,117 @@ func (a *Analyzer) Normalize(text string) string {
 	return a.fold.String(norm.NFC.String(text))
 }
 
+// tokenize normalises text and splits it into the analyzer's tokens: the
+// same tokens as a.tok.run(a.Normalize(text)), faster (see normalized).
+func (a *Analyzer) tokenize(text string) {
+	a.tok.reset()
+	a.tok.run(a.normalized(text))
+}
+
+// normalized returns text normalised for a tokenizer that lower-cases
+// ASCII capitals itself (tokenizer.lower): Normalize(text), except that
+// ASCII capitals may be left as they are. The result may be text itself
+// or a view of a scratch buffer that the next call overwrites.
+//
+//   - ASCII text is returned as it is: NFC leaves ASCII alone and full
+//     case folding only lower-cases its capitals.
+//   - Text that is mostly ASCII is normalised a stretch at a time
+//     (normalizeStretches).
+//   - Other text is normalised whole, into reused buffers.
+func (a *Analyzer) normalized(text string) string {
+	p := firstNonASCII(text)
+	if p == len(text) {
+		return text
+	}
+	nonASCII := 0
+	for i := p; i < len(text); i++ {
+		if text[i] >= utf8.RuneSelf {
+			nonASCII++
+		}
+	}
+	if nonASCII*16 > len(text) {
+		return a.normalizeWhole(text)
+	}
+	return a.normalizeStretches(text)
+}
+
+// normalizeWhole returns Normalize(text) in a scratch buffer.
+func (a *Analyzer) normalizeWhole(text string) string {
+	a.nfc = norm.NFC.AppendString(a.nfc[:0], text)
+	a.folded = a.foldAppend(a.folded[:0], a.nfc)
+	return unsafeString(a.folded)
+}
+
+// normalizeStretches returns Normalize(text), ASCII capitals aside, in a
+// scratch buffer, sending only the stretches of text that hold non-ASCII
+// characters through the Unicode normalisers. Both steps of Normalize
+// leave a boundary before every ASCII character: no composition of NFC
+// has an ASCII character as its second part, and an ASCII character is a
+// starter, so nothing before it changes because of what follows it; and
+// full case folding maps each character on its own. So the text is cut
+// before every ASCII character that is followed by another ASCII
+// character or ends the text, and each stretch of non-ASCII characters is
+// normalised with the ASCII character before it (a letter that a
+// combining mark may compose with).
+func (a *Analyzer) normalizeStretches(text string) string {
+	out := a.folded[:0]
+	for i := 0; i < len(text); {
+		p := i + firstNonASCII(text[i:])
+		if p == len(text) {
+			out = append(out, text[i:]...)
+			break
+		}
+		s := p
+		if p > i {
+			s = p - 1 // the ASCII character before belongs to the stretch
+		}
+		out = append(out, text[i:s]...)
+		q := p
+		for q < len(text) && text[q] >= utf8.RuneSelf {
+			q++
+		}
+		a.nfc = norm.NFC.AppendString(a.nfc[:0], text[s:q])
+		out = a.foldAppend(out, a.nfc)
+		i = q
+	}
+	a.folded = out
+	return unsafeString(out)
+}
+
+// foldAppend appends src with full case folding to dst, as
+// a.fold.String does.
+func (a *Analyzer) foldAppend(dst, src []byte) []byte {
+	a.fold.Reset()
+	for {
+		dst = slices.Grow(dst, len(src)+16)
+		nDst, nSrc, err := a.fold.Transform(dst[len(dst):cap(dst)], src, true)
+		dst = dst[:len(dst)+nDst]
+		src = src[nSrc:]
+		if err != transform.ErrShortDst {
+			return dst
+		}
+	}
+}
+
+// firstNonASCII returns the index of the first byte of s that is not
+// ASCII, or len(s).
+func firstNonASCII(s string) int {
+	i := 0
+	for ; i+8 <= len(s); i += 8 {
+		w := uint64(s[i]) | uint64(s[i+1])<<8 | uint64(s[i+2])<<16 | uint64(s[i+3])<<24 |
+			uint64(s[i+4])<<32 | uint64(s[i+5])<<40 | uint64(s[i+6])<<48 | uint64(s[i+7])<<56
+		if w&0x8080808080808080 != 0 {
+			break
+		}
+	}
+	for ; i < len(s); i++ {
+		if s[i] >= utf8.RuneSelf {
+			return i
+		}
+	}
+	return len(s)
+}
+
 // Analyze calls emit once for every kept token of text, in text order,
 // with the token's index term and its surface form (the folded token, with
 // a possessive or an elided article removed), and returns the language
@@ -88,8 +239,74 @@ func (a *Analyzer) Normalize(text string) string {
 // language or Undetermined. The strings passed to emit stay valid after
 // emit returns.
 func (a *Analyzer) Analyze(text string, emit func(term, surface string)) Language {
-	a.tok.reset()
-	a.tok.run(a.Normalize(text))
+	a.tokenize(text)
+	if a.words == nil {
+		return a.analyzeNoMemo(emit)
+	}
+	doc := a.lookUp()
+	for k := range a.tok.refs {
+		if e := a.entry(k, doc); e.term != "" {
+			emit(e.term, e.surface)
+		}
+	}
+	return langTable[doc].lang
+}
+
+// AnalyzeIDs analyses text as Analyze does and appends to ids, for every
+// kept token in text order, the number Options.TermID gives its term. It
+// also counts each (term, surface form) pair it sees, for
+// [Analyzer.AddFormsTo]. It returns the extended slice and the language
+// used for the document. It panics if Options.TermID is nil.
+func (a *Analyzer) AnalyzeIDs(text string, ids []int32) ([]int32, Language) {
+	if a.opts.TermID == nil {
+		panic("textproc: AnalyzeIDs without Options.TermID")
+	}
+	if a.words == nil {
+		lang := a.Analyze(text, func(term, surface string) {
+			ids = append(ids, a.opts.TermID(term))
+			if a.forms == nil {
+				a.forms = make(map[[2]string]int)
+			}
+			a.forms[[2]string{term, surface}]++
+		})
+		return ids, lang
+	}
+	a.tokenize(text)
+	doc := a.lookUp()
+	for k := range a.tok.refs {
+		e := a.entry(k, doc)
+		if e.term == "" {
+			continue
+		}
+		if e.id < 0 {
+			e.id = a.opts.TermID(e.term)
+		}
+		e.n++
+		ids = append(ids, e.id)
+	}
+	return ids, langTable[doc].lang
+}
+
+// AddFormsTo adds to d the surface forms that AnalyzeIDs counted since the
+// last call, and clears the counts. The forms of several analyzers can be
+// added to one DisplayForms in any order: the counts are sums.
+func (a *Analyzer) AddFormsTo(d *DisplayForms) {
+	for i := range a.entries {
+		e := &a.entries[i]
+		if e.n > 0 {
+			d.AddN(e.term, e.surface, int(e.n))
+			e.n = 0
+		}
+	}
+	for f, n := range a.forms {
+		d.AddN(f[0], f[1], n)
+	}
+	a.forms = nil
+}
+
+// analyzeNoMemo analyses the tokens of the current document without the
+// memo.
+func (a *Analyzer) analyzeNoMemo(emit func(term, surface string)) Language {
 	doc := a.fixed
 	if doc < 0 {
 		a.last = detect(&a.tok)
@@ -100,13 +317,14 @@ func (a *Analyzer) Analyze(text string, emit func(term, surface string)) Languag
 		b := a.tok.token(ref)
 		var e memoEntry
 		if ref.kind == tokGram {
-			e = a.gram(b)
+			surface := string(b)
+			e = memoEntry{term: langTable[idxUnd].prefix + surface, surface: surface}
 		} else {
 			i := doc
 			if ref.script != docScript {
 				i = idxUnd // a number, or a word in another script
 			}
-			e = a.word(i, b)
+			e = a.analyzeWord(&langTable[i], string(b))
 		}
 		if e.term != "" {
 			emit(e.term, e.surface)
@@ -115,42 +333,142 @@ func (a *Analyzer) Analyze(text string, emit func(term, surface string)) Languag
 	return langTable[doc].lang
 }
 
+// lookUp finds the memo of every token of the current document (adding
+// the new ones), settles the document's language and returns its index in
+// langTable.
+func (a *Analyzer) lookUp() int {
+	refs := a.tok.refs
+	a.at = a.at[:0]
+	for _, ref := range refs {
+		b := a.tok.token(ref)
+		if ref.kind == tokGram {
+			i, ok := a.grams[unsafeString(b)]
+			if !ok {
+				surface := string(b)
+				i = a.newEntry(memoEntry{term: langTable[idxUnd].prefix + surface, surface: surface})
+				a.grams[surface] = i
+			}
+			a.at = append(a.at, i)
+			continue
+		}
+		i, ok := a.words[unsafeString(b)]
+		if !ok {
+			i = a.newToken(string(b), ref.script)
+		}
+		a.at = append(a.at, i)
+	}
+	if a.fixed >= 0 {
+		return a.fixed
+	}
+	var (
+		stops, marks   [numStemmed]int
+		nLatin, nCyril int
+	)
+	for k, ref := range refs {
+		if ref.kind != tokWord || (ref.script != scriptLatin && ref.script != scriptCyrillic) {
+			continue
+		}
+		tm := &a.toks[a.at[k]]
+		if ref.script == scriptCyrillic {
+			nCyril += int(tm.pieces)
+		} else {
+			nLatin += int(tm.pieces)
+		}
+		for m := tm.marks; m != 0; m &= m - 1 {
+			marks[bits.TrailingZeros8(m)]++
+		}
+		if tm.multi > 0 {
+			for i, n := range &a.multi[tm.multi-1] {
+				stops[i] += int(n)
+			}
+			continue
+		}
+		for m := tm.stops; m != 0; m &= m - 1 {
+			stops[bits.TrailingZeros8(m)]++
+		}
+	}
+	a.last = decide(&stops, &marks, nLatin, nCyril)
+	doc, _ := langIndex(a.last.Lang)
+	return doc
+}
+
+// newToken adds the memo of the word token key, whose first letter is of
+// script sc, and returns its index.
+func (a *Analyzer) newToken(key string, sc script) int32 {
+	f := wordFacts([]byte(key), sc)
+	tm := tokMemo{key: key, pieces: int32(f.pieces), marks: f.marks}
+	if f.pieces <= 1 {
+		for i, n := range f.stops {
+			if n > 0 {
+				tm.stops |= 1 << i
+			}
+		}
+	} else {
+		var counts [numStemmed]int32
+		any := false
+		for i, n := range f.stops {
+			counts[i] = int32(n)
+			any = any || n > 0
+		}
+		if any {
+			a.multi = append(a.multi, counts)
+			tm.multi = int32(len(a.multi))
+		}
+	}
+	i := int32(len(a.toks))
+	a.toks = append(a.toks, tm)
+	a.words[key] = i
+	return i
+}
+
+func (a *Analyzer) newEntry(e memoEntry) int32 {
+	e.id = -1
+	a.entries = append(a.entries, e)
+	return int32(len(a.entries) - 1)
+}
+
+// entry returns the analysis of the k-th token of the current document in
+// the document's language doc (for a word written in that language's
+// script; otherwise in Undetermined), analysing it the first time.
+func (a *Analyzer) entry(k, doc int) *memoEntry {
+	ref := a.tok.refs[k]
+	if ref.kind == tokGram {
+		return &a.entries[a.at[k]]
+	}
+	li := doc
+	if ref.script != langTable[doc].script {
+		li = idxUnd // a number, or a word in another script
+	}
+	ti := a.at[k]
+	tm := &a.toks[ti]
+	for s := range tm.nres {
+		if int(tm.lang[s]) == li {
+			return &a.entries[tm.res[s]]
+		}
+	}
+	key := uint64(ti)<<8 | uint64(li)
+	if tm.nres == 2 {
+		if e, ok := a.more[key]; ok {
+			return &a.entries[e]
+		}
+	}
+	e := a.newEntry(a.analyzeWord(&langTable[li], tm.key))
+	if tm.nres < 2 {
+		tm.lang[tm.nres], tm.res[tm.nres] = uint8(li), e
+		tm.nres++
+	} else {
+		if a.more == nil {
+			a.more = make(map[uint64]int32)
+		}
+		a.more[key] = e
+	}
+	return &a.entries[e]
+}
+
 // LastDetection returns the language detection of the last Analyze call
 // that detected one (Options.Lang "" or Auto); the zero Detection before
 // that.
 func (a *Analyzer) LastDetection() Detection { return a.last }
-
-// word returns the analysis of the word token b in language langTable[i],
-// from the memo when it is on.
-func (a *Analyzer) word(i int, b []byte) memoEntry {
-	m := a.memo[i]
-	if m != nil {
-		if e, ok := m[string(b)]; ok {
-			return e
-		}
-	}
-	key := string(b)
-	e := a.analyzeWord(&langTable[i], key)
-	if m != nil {
-		m[key] = e
-	}
-	return e
-}
-
-// gram returns the term of the bigram-script token b.
-func (a *Analyzer) gram(b []byte) memoEntry {
-	if a.grams != nil {
-		if e, ok := a.grams[string(b)]; ok {
-			return e
-		}
-	}
-	surface := string(b)
-	e := memoEntry{term: langTable[idxUnd].prefix + surface, surface: surface}
-	if a.grams != nil {
-		a.grams[surface] = e
-	}
-	return e
-}
 
 // analyzeWord analyses one folded word token, which the caller owns, in
 // language li (doc.go, "The analysis, step by step", steps 4 to 7).

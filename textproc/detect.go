@@ -109,53 +109,71 @@ func lettersMask(tok []byte) uint8 {
 	return m
 }
 
+// tokenFacts is what one word token adds to the counts of language
+// detection (rule step 1 and the scores of step 2).
+type tokenFacts struct {
+	stops  [numStemmed]int // pieces on each candidate's stop list
+	marks  uint8           // candidates marked by a letter of the token (Latin only)
+	pieces int             // pieces between apostrophes
+}
+
+// wordFacts returns the facts of the word token tok, whose first letter is
+// of script sc; the zero facts for a script that has no candidate.
+func wordFacts(tok []byte, sc script) tokenFacts {
+	var f tokenFacts
+	var cand uint8
+	switch sc {
+	case scriptLatin:
+		cand = latinCandidates
+		f.marks = lettersMask(tok)
+	case scriptCyrillic:
+		cand = cyrillicCandidates
+	default:
+		return f
+	}
+	for len(tok) > 0 { // each piece between apostrophes counts
+		piece := tok
+		if i := bytes.IndexByte(tok, '\''); i >= 0 {
+			piece, tok = tok[:i], tok[i+1:]
+		} else {
+			tok = nil
+		}
+		f.pieces++
+		if cand == cyrillicCandidates && bytes.Contains(piece, yo) {
+			piece = []byte(russianYo(string(piece)))
+		}
+		for m := stopMask[string(piece)] & cand; m != 0; m &= m - 1 {
+			f.stops[bits.TrailingZeros8(m)]++
+		}
+	}
+	return f
+}
+
+var yo = []byte("ё")
+
 // detect applies the detection rule to the word tokens held by t.
 func detect(t *tokenizer) Detection {
 	var (
 		stops, marks   [numStemmed]int
 		nLatin, nCyril int
-		yo             = []byte("ё")
 	)
 	for _, ref := range t.refs {
-		if ref.kind != tokWord {
+		if ref.kind != tokWord || (ref.script != scriptLatin && ref.script != scriptCyrillic) {
 			continue
 		}
-		var cand uint8
-		switch ref.script {
-		case scriptLatin:
-			cand = latinCandidates
-		case scriptCyrillic:
-			cand = cyrillicCandidates
-		default:
-			continue
+		f := wordFacts(t.token(ref), ref.script)
+		if ref.script == scriptCyrillic {
+			nCyril += f.pieces
+		} else {
+			nLatin += f.pieces
 		}
-		tok := t.token(ref)
-		if cand == latinCandidates {
-			for m := lettersMask(tok); m != 0; m &= m - 1 {
-				marks[bits.TrailingZeros8(m)]++
-			}
+		for m := f.marks; m != 0; m &= m - 1 {
+			marks[bits.TrailingZeros8(m)]++
 		}
-		for len(tok) > 0 { // each piece between apostrophes counts
-			piece := tok
-			if i := bytes.IndexByte(tok, '\''); i >= 0 {
-				piece, tok = tok[:i], tok[i+1:]
-			} else {
-				tok = nil
-			}
-			if cand == cyrillicCandidates {
-				nCyril++
-				if bytes.Contains(piece, yo) {
-					piece = []byte(russianYo(string(piece)))
-				}
-			} else {
-				nLatin++
-			}
-			for m := stopMask[string(piece)] & cand; m != 0; m &= m - 1 {
-				stops[bits.TrailingZeros8(m)]++
-			}
+		for i, n := range f.stops {
+			stops[i] += n
 		}
 	}
-
 	return decide(&stops, &marks, nLatin, nCyril)
 }
 
