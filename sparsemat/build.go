@@ -4,6 +4,7 @@ import (
 	"encoding/binary"
 	"errors"
 	"fmt"
+	"math/bits"
 	"runtime"
 	"slices"
 	"strings"
@@ -72,10 +73,10 @@ func (v *Vocabulary) Len() int {
 // its [Vocabulary] is.
 //
 // Rows are kept compactly until [Builder.Build]: each entry as two
-// unsigned varints (the gap to the previous term ID of the row and the
-// count minus one), about 3 bytes where an int32 pair takes 8, in slabs
-// that are never copied to grow. Build decodes them, so adding a row costs
-// no more than writing it down.
+// unsigned varints (the term ID and the count minus one, see appendEntry),
+// 3 to 4 bytes where an int32 pair takes 8, in slabs that are never copied
+// to grow. Build decodes them, so adding a row costs little more than
+// writing it down.
 type Builder struct {
 	vocab Vocabulary
 	slabs [][]byte // encoded rows; a row never spans two slabs
@@ -110,13 +111,9 @@ func (b *Builder) AddRow(counts map[string]int) {
 		}
 	}
 	b.vocab.mu.Unlock()
-	slices.SortFunc(b.ent, func(x, y entry) int { return int(x.id - y.id) })
 	dst := b.reserve(len(b.ent))
-	prev := int32(-1)
 	for _, e := range b.ent {
-		dst = binary.AppendUvarint(dst, uint64(e.id-prev-1))
-		dst = binary.AppendUvarint(dst, uint64(e.count-1))
-		prev = e.id
+		dst = appendEntry(dst, e.id, e.count)
 	}
 	b.commit(dst, len(b.ent))
 }
@@ -138,8 +135,7 @@ func (b *Builder) AddRowIDs(cols, counts []int32) {
 		if id <= prev || counts[k] < 1 {
 			panic("sparsemat: AddRowIDs with columns out of order or a count below 1")
 		}
-		dst = binary.AppendUvarint(dst, uint64(id-prev-1))
-		dst = binary.AppendUvarint(dst, uint64(counts[k]-1))
+		dst = appendEntry(dst, id, counts[k])
 		prev = id
 	}
 	b.commit(dst, len(cols))
@@ -157,7 +153,8 @@ func (b *Builder) AddCounted(r Row) {
 }
 
 // reserve returns the current slab with room for a row of n entries
-// (at most 10 bytes each), starting a new slab when needed.
+// (at most 10 bytes each: two varints of 32-bit values), starting a new
+// slab when needed.
 func (b *Builder) reserve(n int) []byte {
 	need := 10 * n
 	if len(b.slabs) == 0 || cap(b.slabs[len(b.slabs)-1])-len(b.slabs[len(b.slabs)-1]) < need {
@@ -177,19 +174,16 @@ func (b *Builder) commit(slab []byte, n int) {
 // Rows returns the number of rows added so far.
 func (b *Builder) Rows() int { return len(b.rowLen) }
 
-// decodeRow appends the entries of row i, in order of provisional ID, to
-// buf.
+// decodeRow appends the entries of row i to buf.
 func (b *Builder) decodeRow(i int, buf []entry) []entry {
 	slab := b.slabs[b.rowAt[i]>>32]
 	p := int(uint32(b.rowAt[i]))
-	id := int32(-1)
 	for range b.rowLen[i] {
-		gap, n := binary.Uvarint(slab[p:])
+		id, n := binary.Uvarint(slab[p:])
 		p += n
 		c, n := binary.Uvarint(slab[p:])
 		p += n
-		id += int32(gap) + 1
-		buf = append(buf, entry{id, int32(c) + 1})
+		buf = append(buf, entry{int32(id), int32(c) + 1})
 	}
 	return buf
 }
@@ -374,9 +368,10 @@ func (b *Builder) Build(p Pruning) (*Counts, error) {
 	}
 	ja := make([]int, nnz)
 	data := make([]float64, nnz)
+	idBits := bits.Len(uint(len(c.Terms) - 1))
 	b.parallelRows(func(lo, hi, _ int) {
 		var buf []entry
-		var packed []uint64 // new ID << 32 | count, sorted
+		var packed, tmp []uint64 // new ID << 32 | count, sorted
 		for i := lo; i < hi; i++ {
 			buf = b.decodeRow(i, buf[:0])
 			packed = packed[:0]
@@ -385,7 +380,7 @@ func (b *Builder) Build(p Pruning) (*Counts, error) {
 					packed = append(packed, uint64(j)<<32|uint64(uint32(e.count)))
 				}
 			}
-			slices.Sort(packed)
+			packed, tmp = sortEntries(packed, tmp, idBits)
 			k := start[i]
 			for _, v := range packed {
 				ja[k] = int(v >> 32)
@@ -396,6 +391,39 @@ func (b *Builder) Build(p Pruning) (*Counts, error) {
 	})
 	c.Matrix = sparse.NewCSR(len(c.Rows), len(c.Terms), ia, ja, data)
 	return c, nil
+}
+
+// sortEntries sorts packed entries (column << 32 | count, columns below
+// 1<<idBits and distinct) by column, using tmp as scratch, and returns
+// the sorted slice and the scratch. Long rows are sorted by their columns'
+// bytes, least significant first (a radix sort: a few passes without a
+// comparison, where a comparison sort mispredicts about every other
+// branch); short ones by insertion.
+func sortEntries(packed, tmp []uint64, idBits int) ([]uint64, []uint64) {
+	if len(packed) < 48 {
+		slices.Sort(packed)
+		return packed, tmp
+	}
+	tmp = slices.Grow(tmp[:0], len(packed))[:len(packed)]
+	src, dst := packed, tmp
+	for shift := 32; shift < 32+idBits; shift += 8 {
+		var count [256]int
+		for _, v := range src {
+			count[byte(v>>shift)]++
+		}
+		pos := 0
+		for d, n := range count {
+			count[d] = pos
+			pos += n
+		}
+		for _, v := range src {
+			d := byte(v >> shift)
+			dst[count[d]] = v
+			count[d]++
+		}
+		src, dst = dst, src
+	}
+	return src, dst
 }
 
 // Row is one document's term counts as a [RowCounter] encodes them for
@@ -440,17 +468,24 @@ func (c *RowCounter) AddAll(ids []int32) {
 // Row returns the counted row, encoded in a new buffer, and starts a new
 // one.
 func (c *RowCounter) Row() Row {
-	slices.Sort(c.ids)
-	enc := make([]byte, 0, 3*len(c.ids)+8)
-	prev := int32(-1)
+	enc := make([]byte, 0, 4*len(c.ids))
+	maxID := int32(-1)
 	for _, id := range c.ids {
-		n := c.count[id]
+		enc = appendEntry(enc, id, c.count[id])
 		c.count[id] = 0
-		enc = binary.AppendUvarint(enc, uint64(id-prev-1))
-		enc = binary.AppendUvarint(enc, uint64(n-1))
-		prev = id
+		maxID = max(maxID, id)
 	}
-	r := Row{enc: enc, n: int32(len(c.ids)), maxID: prev}
+	r := Row{enc: enc, n: int32(len(c.ids)), maxID: maxID}
 	c.ids = c.ids[:0]
 	return r
+}
+
+// appendEntry encodes one entry of a row: the term ID and the count minus
+// one, as unsigned varints. Rows are not sorted (Build sorts them once
+// their final column numbers are known), and the first terms seen, which
+// are the most frequent ones, have the smallest IDs, so most IDs take one
+// or two bytes.
+func appendEntry(dst []byte, id, count int32) []byte {
+	dst = binary.AppendUvarint(dst, uint64(id))
+	return binary.AppendUvarint(dst, uint64(count-1))
 }

@@ -55,32 +55,29 @@ type Analyzer struct {
 	nfc, folded []byte
 	last        Detection
 
-	// The memo (nil maps with Options.NoMemo). Every distinct word token
-	// has a tokMemo, found with one look-up, that holds its detection
-	// facts and where its analysis in each language it was seen in is
-	// kept; every analysis is an entry. Bigrams go straight to an entry.
-	words   map[string]int32 // folded word token -> index in toks
+	// The memo (off with Options.NoMemo). Every distinct word token has a
+	// slot in words, found with one look-up, that holds its detection
+	// facts and its analysis in the first language it was analysed in,
+	// and a tokMemo; its analyses in other languages are found through
+	// more. Every analysis is an entry. Bigrams go straight to an entry.
+	memo    bool
+	words   wordTable
 	toks    []tokMemo
-	more    map[uint64]int32 // token index << 8 | language -> entry, past two languages
+	more    map[uint64]int32 // token index << 8 | language -> entry
 	multi   [][numStemmed]int32
 	grams   map[string]int32 // bigram -> index in entries
 	entries []memoEntry
-	at      []int32 // per token of the current document: its toks (word) or entries (bigram) index
+	at      []int32 // per token of the current document: its slot in words (word) or its entry (bigram)
 
 	// The surface forms counted by AnalyzeIDs without the memo.
 	forms map[[2]string]int
 }
 
-// tokMemo is the memo of one distinct word token.
+// tokMemo is the memo of one distinct word token, beside its slot.
 type tokMemo struct {
 	key    string // the token, the memo's own copy
 	pieces int32  // detection: pieces between apostrophes
-	multi  int32  // detection: 1 + index in Analyzer.multi of the stop counts of a token of several pieces; 0 when stops holds them
-	stops  uint8  // detection: the candidates whose stop list holds the token (one piece)
-	marks  uint8  // detection: the candidates a letter of the token marks
-	nres   uint8  // languages analysed in: how many of lang, res are set (more go to Analyzer.more)
-	lang   [2]uint8
-	res    [2]int32 // index in entries of the analysis in lang[i]
+	multi  int32  // detection: 1 + index in Analyzer.multi of the stop counts of a token of several pieces; 0 when it has none
 }
 
 // memoEntry is the analysis of one distinct token in one language. term
@@ -109,7 +106,7 @@ func NewAnalyzer(opts Options) *Analyzer {
 		a.fixed = i
 	}
 	if !opts.NoMemo {
-		a.words = make(map[string]int32)
+		a.memo = true
 		a.grams = make(map[string]int32)
 	}
 	return a
@@ -240,12 +237,23 @@ func firstNonASCII(s string) int {
 // emit returns.
 func (a *Analyzer) Analyze(text string, emit func(term, surface string)) Language {
 	a.tokenize(text)
-	if a.words == nil {
+	if !a.memo {
 		return a.analyzeNoMemo(emit)
 	}
 	doc := a.lookUp()
-	for k := range a.tok.refs {
-		if e := a.entry(k, doc); e.term != "" {
+	docScript := langTable[doc].script
+	for k, ref := range a.tok.refs {
+		var e *memoEntry
+		if ref.kind == tokGram {
+			e = &a.entries[a.at[k]]
+		} else {
+			li := doc
+			if ref.script != docScript {
+				li = idxUnd // a number, or a word in another script
+			}
+			e = &a.entries[a.wordEntry(a.at[k], li)]
+		}
+		if e.term != "" {
 			emit(e.term, e.surface)
 		}
 	}
@@ -261,7 +269,7 @@ func (a *Analyzer) AnalyzeIDs(text string, ids []int32) ([]int32, Language) {
 	if a.opts.TermID == nil {
 		panic("textproc: AnalyzeIDs without Options.TermID")
 	}
-	if a.words == nil {
+	if !a.memo {
 		lang := a.Analyze(text, func(term, surface string) {
 			ids = append(ids, a.opts.TermID(term))
 			if a.forms == nil {
@@ -272,25 +280,119 @@ func (a *Analyzer) AnalyzeIDs(text string, ids []int32) ([]int32, Language) {
 		return ids, lang
 	}
 	a.tokenize(text)
+	if a.fixed >= 0 {
+		// No detection: each token is looked up and counted in one pass.
+		doc := a.fixed
+		docScript := langTable[doc].script
+		a.words.reserve(len(a.tok.refs), a.toks)
+		for _, ref := range a.tok.refs {
+			b := a.tok.token(ref)
+			if ref.kind == tokGram {
+				if e := &a.entries[a.gramEntry(b)]; e.term != "" {
+					ids = a.countEntry(ids, e)
+				}
+				continue
+			}
+			li := doc
+			if ref.script != docScript {
+				li = idxUnd
+			}
+			ids = a.countWord(ids, a.wordSlot(b, ref.script), li)
+		}
+		return ids, langTable[doc].lang
+	}
 	doc := a.lookUp()
-	for k := range a.tok.refs {
-		e := a.entry(k, doc)
-		if e.term == "" {
+	docScript := langTable[doc].script
+	for k, ref := range a.tok.refs {
+		if ref.kind == tokGram {
+			if e := &a.entries[a.at[k]]; e.term != "" {
+				ids = a.countEntry(ids, e)
+			}
 			continue
 		}
-		if e.id < 0 {
-			e.id = a.opts.TermID(e.term)
+		li := doc
+		if ref.script != docScript {
+			li = idxUnd
 		}
-		e.n++
-		ids = append(ids, e.id)
+		ids = a.countWord(ids, a.at[k], li)
 	}
 	return ids, langTable[doc].lang
+}
+
+// countWord counts one occurrence of the word token in slot si, analysed
+// in language li, and appends its term ID unless it is dropped.
+func (a *Analyzer) countWord(ids []int32, si int32, li int) []int32 {
+	s := &a.words.slots[si]
+	if int(s.lang) != li {
+		if s.lang != noLang {
+			// Not the language of the slot's analysis.
+			if e := &a.entries[a.wordEntry(si, li)]; e.term != "" {
+				ids = a.countEntry(ids, e)
+			}
+			return ids
+		}
+		a.wordEntry(si, li) // the slot's analysis, from now on
+	}
+	// The common case: the slot's own analysis.
+	if s.id == idUnknown {
+		s.id = idDropped
+		if e := &a.entries[s.ent]; e.term != "" {
+			if e.id < 0 {
+				e.id = a.opts.TermID(e.term)
+			}
+			s.id = e.id
+		}
+	}
+	if s.id >= 0 {
+		s.n++
+		ids = append(ids, s.id)
+	}
+	return ids
+}
+
+// wordSlot returns the slot of the word token b, whose first letter is of
+// script sc, adding it if it is new. The table must have room
+// (wordTable.reserve).
+func (a *Analyzer) wordSlot(b []byte, sc script) int32 {
+	i, ok := a.words.find(b, hashToken(b), a.toks)
+	if !ok {
+		a.newToken(i, b, sc)
+	}
+	return int32(i)
+}
+
+// gramEntry returns the entry of the bigram-script token b, adding it if
+// it is new.
+func (a *Analyzer) gramEntry(b []byte) int32 {
+	i, ok := a.grams[unsafeString(b)]
+	if !ok {
+		surface := string(b)
+		i = a.newEntry(memoEntry{term: langTable[idxUnd].prefix + surface, surface: surface})
+		a.grams[surface] = i
+	}
+	return i
+}
+
+// countEntry counts one occurrence of e, a kept analysis outside a slot,
+// and appends its term ID.
+func (a *Analyzer) countEntry(ids []int32, e *memoEntry) []int32 {
+	if e.id < 0 {
+		e.id = a.opts.TermID(e.term)
+	}
+	e.n++
+	return append(ids, e.id)
 }
 
 // AddFormsTo adds to d the surface forms that AnalyzeIDs counted since the
 // last call, and clears the counts. The forms of several analyzers can be
 // added to one DisplayForms in any order: the counts are sums.
 func (a *Analyzer) AddFormsTo(d *DisplayForms) {
+	for i := range a.words.slots {
+		if s := &a.words.slots[i]; s.n > 0 {
+			a.entries[s.ent].n += s.n
+			s.n = 0
+		}
+	}
 	for i := range a.entries {
 		e := &a.entries[i]
 		if e.n > 0 {
@@ -339,23 +441,14 @@ func (a *Analyzer) analyzeNoMemo(emit func(term, surface string)) Language {
 func (a *Analyzer) lookUp() int {
 	refs := a.tok.refs
 	a.at = a.at[:0]
+	a.words.reserve(len(refs), a.toks)
 	for _, ref := range refs {
 		b := a.tok.token(ref)
 		if ref.kind == tokGram {
-			i, ok := a.grams[unsafeString(b)]
-			if !ok {
-				surface := string(b)
-				i = a.newEntry(memoEntry{term: langTable[idxUnd].prefix + surface, surface: surface})
-				a.grams[surface] = i
-			}
-			a.at = append(a.at, i)
-			continue
+			a.at = append(a.at, a.gramEntry(b))
+		} else {
+			a.at = append(a.at, a.wordSlot(b, ref.script))
 		}
-		i, ok := a.words[unsafeString(b)]
-		if !ok {
-			i = a.newToken(string(b), ref.script)
-		}
-		a.at = append(a.at, i)
 	}
 	if a.fixed >= 0 {
 		return a.fixed
@@ -368,22 +461,26 @@ func (a *Analyzer) lookUp() int {
 		if ref.kind != tokWord || (ref.script != scriptLatin && ref.script != scriptCyrillic) {
 			continue
 		}
-		tm := &a.toks[a.at[k]]
-		if ref.script == scriptCyrillic {
-			nCyril += int(tm.pieces)
-		} else {
-			nLatin += int(tm.pieces)
+		s := &a.words.slots[a.at[k]]
+		pieces, stopMask := int(s.pieces), s.stops
+		if s.pieces == manyPieces {
+			tm := &a.toks[s.ti]
+			pieces = int(tm.pieces)
+			if tm.multi > 0 {
+				for i, n := range &a.multi[tm.multi-1] {
+					stops[i] += int(n)
+				}
+			}
 		}
-		for m := tm.marks; m != 0; m &= m - 1 {
+		if ref.script == scriptCyrillic {
+			nCyril += pieces
+		} else {
+			nLatin += pieces
+		}
+		for m := s.marks; m != 0; m &= m - 1 {
 			marks[bits.TrailingZeros8(m)]++
 		}
-		if tm.multi > 0 {
-			for i, n := range &a.multi[tm.multi-1] {
-				stops[i] += int(n)
-			}
-			continue
-		}
-		for m := tm.stops; m != 0; m &= m - 1 {
+		for m := stopMask; m != 0; m &= m - 1 {
 			stops[bits.TrailingZeros8(m)]++
 		}
 	}
@@ -392,33 +489,42 @@ func (a *Analyzer) lookUp() int {
 	return doc
 }
 
-// newToken adds the memo of the word token key, whose first letter is of
-// script sc, and returns its index.
-func (a *Analyzer) newToken(key string, sc script) int32 {
-	f := wordFacts([]byte(key), sc)
-	tm := tokMemo{key: key, pieces: int32(f.pieces), marks: f.marks}
-	if f.pieces <= 1 {
-		for i, n := range f.stops {
-			if n > 0 {
-				tm.stops |= 1 << i
-			}
+// newToken fills slot i of the word table with the new word token b,
+// whose first letter is of script sc, and adds its tokMemo.
+func (a *Analyzer) newToken(i int, b []byte, sc script) {
+	key := string(b)
+	f := wordFacts(b, sc)
+	tm := tokMemo{key: key, pieces: int32(f.pieces)}
+	s := wslot{lang: noLang, marks: f.marks, ti: int32(len(a.toks)), id: idUnknown}
+	s.klen = uint8(len(b))
+	if len(b) > wKey {
+		s.klen = wLong
+	}
+	copy(s.key[:], b)
+	var counts [numStemmed]int32
+	hits := 0
+	for l, n := range f.stops {
+		counts[l] = int32(n)
+		hits += n
+		if n > 0 {
+			s.stops |= 1 << l
 		}
-	} else {
-		var counts [numStemmed]int32
-		any := false
-		for i, n := range f.stops {
-			counts[i] = int32(n)
-			any = any || n > 0
-		}
-		if any {
+	}
+	switch {
+	case f.pieces <= 1:
+		s.pieces = uint8(f.pieces)
+	case hits == 0 && f.pieces < manyPieces:
+		s.pieces = uint8(f.pieces)
+	default:
+		s.pieces, s.stops = manyPieces, 0
+		if hits > 0 {
 			a.multi = append(a.multi, counts)
 			tm.multi = int32(len(a.multi))
 		}
 	}
-	i := int32(len(a.toks))
 	a.toks = append(a.toks, tm)
-	a.words[key] = i
-	return i
+	a.words.slots[i] = s
+	a.words.used++
 }
 
 func (a *Analyzer) newEntry(e memoEntry) int32 {
@@ -427,42 +533,28 @@ func (a *Analyzer) newEntry(e memoEntry) int32 {
 	return int32(len(a.entries) - 1)
 }
 
-// entry returns the analysis of the k-th token of the current document in
-// the document's language doc (for a word written in that language's
-// script; otherwise in Undetermined), analysing it the first time.
-func (a *Analyzer) entry(k, doc int) *memoEntry {
-	ref := a.tok.refs[k]
-	if ref.kind == tokGram {
-		return &a.entries[a.at[k]]
+// wordEntry returns the entry of the analysis of the word token in slot
+// si in language li, analysing it the first time: the slot keeps the
+// first language's analysis, the others are found through a.more.
+func (a *Analyzer) wordEntry(si int32, li int) int32 {
+	s := &a.words.slots[si]
+	if int(s.lang) == li {
+		return s.ent
 	}
-	li := doc
-	if ref.script != langTable[doc].script {
-		li = idxUnd // a number, or a word in another script
+	if s.lang == noLang {
+		s.lang, s.ent = uint8(li), a.newEntry(a.analyzeWord(&langTable[li], a.toks[s.ti].key))
+		return s.ent
 	}
-	ti := a.at[k]
-	tm := &a.toks[ti]
-	for s := range tm.nres {
-		if int(tm.lang[s]) == li {
-			return &a.entries[tm.res[s]]
-		}
+	key := uint64(s.ti)<<8 | uint64(li)
+	if e, ok := a.more[key]; ok {
+		return e
 	}
-	key := uint64(ti)<<8 | uint64(li)
-	if tm.nres == 2 {
-		if e, ok := a.more[key]; ok {
-			return &a.entries[e]
-		}
+	e := a.newEntry(a.analyzeWord(&langTable[li], a.toks[s.ti].key))
+	if a.more == nil {
+		a.more = make(map[uint64]int32)
 	}
-	e := a.newEntry(a.analyzeWord(&langTable[li], tm.key))
-	if tm.nres < 2 {
-		tm.lang[tm.nres], tm.res[tm.nres] = uint8(li), e
-		tm.nres++
-	} else {
-		if a.more == nil {
-			a.more = make(map[uint64]int32)
-		}
-		a.more[key] = e
-	}
-	return &a.entries[e]
+	a.more[key] = e
+	return e
 }
 
 // LastDetection returns the language detection of the last Analyze call

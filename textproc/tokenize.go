@@ -152,8 +152,10 @@ const (
 	asciiApos               // ', which needs a look at the next character
 )
 
-// asciiClass is the class of each ASCII byte.
-var asciiClass = func() (c [utf8.RuneSelf]uint8) {
+// asciiClass is the class of each ASCII byte; wordBits has the bit
+// 1<<class of each ASCII letter and digit, and 0 for every other byte, non-ASCII
+// ones included.
+var asciiClass, wordBits = func() (c [utf8.RuneSelf]uint8, w [256]uint8) {
 	for b := '0'; b <= '9'; b++ {
 		c[b] = asciiDigit
 	}
@@ -162,7 +164,12 @@ var asciiClass = func() (c [utf8.RuneSelf]uint8) {
 		c[b-'a'+'A'] = asciiUpper
 	}
 	c['\''] = asciiApos
-	return c
+	for b, cl := range c {
+		if cl >= asciiDigit && cl <= asciiUpper {
+			w[b] = 1 << cl
+		}
+	}
+	return c, w
 }()
 
 // run appends the tokens of text by the rule of the package documentation.
@@ -193,15 +200,11 @@ func (t *tokenizer) run(text string) {
 				}
 				j, seen := i, uint8(0)
 				for ; j < len(text); j++ {
-					k := text[j]
-					if k >= utf8.RuneSelf {
+					f := wordBits[text[j]]
+					if f == 0 {
 						break
 					}
-					cl := asciiClass[k]
-					if cl < asciiDigit || cl > asciiUpper {
-						break
-					}
-					seen |= 1 << cl
+					seen |= f
 				}
 				if t.wscript == scriptNone && seen&(1<<asciiLower|1<<asciiUpper) != 0 {
 					t.wscript = scriptLatin

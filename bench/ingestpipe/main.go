@@ -1,0 +1,321 @@
+// Command ingestpipe times the ingest of a folder (walk, read, analyse,
+// count, build the pruned count matrix) the way the command line's pick
+// does it, with two designs of the worker/collector split side by side:
+//
+//	go run ./bench/ingestpipe -dir DIR [-collector ids|maps] [-lang english] [-no-stem] [-jobs N] [-minhash] [-runs 3]
+//
+// "maps" is the design of cmd/assay/analyze.go: each worker counts a
+// document's terms and its (term, surface form) pairs in two maps, and the
+// collector (one goroutine, in walk order) turns the first into a row with
+// sparsemat.Builder.AddRow and adds the second to textproc.DisplayForms.
+// "ids" is the design this command proposes: workers analyse with
+// textproc.Analyzer.AnalyzeIDs, whose terms are numbered by the builder's
+// shared sparsemat.Vocabulary, count the IDs with a sparsemat.RowCounter,
+// and the collector only appends the encoded row (Builder.AddCounted);
+// each analyzer keeps its own surface-form counts, added to one
+// DisplayForms after the walk (AddFormsTo; the counts are sums, so the
+// order does not matter). -minhash adds the MinHash signature of each
+// document's word shingles, as analyze.go computes it for the near-copy
+// search (copied here: FNV-1a of each term, shingles of 3,
+// selection.MinHash).
+//
+// It prints, per run, the time and MB/s of raw input (the sum of the sizes
+// of the documents read), and then the medians, the peak resident memory
+// (VmHWM) against the CSR's size and the vocabulary's, and a checksum of
+// everything the matrix and the display forms hold: the two designs, and
+// any -jobs, must print the same checksum.
+package main
+
+import (
+	"crypto/sha256"
+	"encoding/binary"
+	"flag"
+	"fmt"
+	"io/fs"
+	"math"
+	"os"
+	"runtime"
+	"runtime/pprof"
+	"slices"
+	"strings"
+	"sync"
+	"syscall"
+	"time"
+
+	"assay/corpus"
+	selection "assay/select"
+	"assay/sparsemat"
+	"assay/textproc"
+)
+
+type result struct {
+	counts  *sparsemat.Counts
+	display *textproc.DisplayForms
+	docs    int
+	bytes   int64
+	sigs    []uint32
+	fp      string
+}
+
+func main() {
+	dir := flag.String("dir", "", "corpus folder")
+	collector := flag.String("collector", "ids", "ids or maps (see the package documentation)")
+	lang := flag.String("lang", "english", "language (auto, english, …)")
+	noStem := flag.Bool("no-stem", false, "do not stem")
+	jobs := flag.Int("jobs", runtime.GOMAXPROCS(0), "workers")
+	minhash := flag.Bool("minhash", false, "compute the MinHash signature of each document, as analyze.go does")
+	runs := flag.Int("runs", 3, "timed runs")
+	cpuprofile := flag.String("cpuprofile", "", "write a CPU profile of the runs")
+	flag.Parse()
+	if *dir == "" {
+		fmt.Fprintln(os.Stderr, "usage: ingestpipe -dir DIR [flags]")
+		os.Exit(2)
+	}
+	l, err := textproc.ParseLanguage(*lang)
+	if err != nil {
+		fmt.Fprintln(os.Stderr, err)
+		os.Exit(2)
+	}
+	root, err := os.OpenRoot(*dir)
+	if err != nil {
+		fmt.Fprintln(os.Stderr, err)
+		os.Exit(1)
+	}
+	opts := textproc.Options{NoStem: *noStem, Lang: l}
+	if *cpuprofile != "" {
+		f, err := os.Create(*cpuprofile)
+		if err != nil {
+			fmt.Fprintln(os.Stderr, err)
+			os.Exit(1)
+		}
+		pprof.StartCPUProfile(f)
+		defer pprof.StopCPUProfile()
+	}
+	var times []float64
+	var last *result
+	for r := range *runs {
+		last = nil
+		runtime.GC()
+		start, cpu0 := time.Now(), cpuSeconds()
+		var res *result
+		if *collector == "maps" {
+			res, err = ingestMaps(root.FS(), opts, *jobs, *minhash)
+		} else {
+			res, err = ingestIDs(root.FS(), opts, *jobs, *minhash)
+		}
+		if err != nil {
+			fmt.Fprintln(os.Stderr, err)
+			os.Exit(1)
+		}
+		t := time.Since(start).Seconds()
+		times = append(times, t)
+		fmt.Printf("run %d: %d documents, %.1f MB in %.3f s: %.1f MB/s (CPU %.2f s)\n", r+1, res.docs, float64(res.bytes)/1e6, t, float64(res.bytes)/1e6/t, cpuSeconds()-cpu0)
+		last = res
+	}
+	peak := rssKB("VmHWM")
+	c := last.counts
+	nnz := len(c.Matrix.RawMatrix().Data)
+	csr := 8*(len(c.Rows)+1) + 16*nnz
+	vocab := 0
+	for _, t := range c.Terms {
+		vocab += len(t) + 16 + 8 // the string, its header and the DF
+	}
+	slices.Sort(times)
+	med := times[len(times)/2]
+	fmt.Printf("collector %s, lang %s, stem %v, jobs %d, minhash %v, GOMAXPROCS %d\n", *collector, l, !*noStem, *jobs, *minhash, runtime.GOMAXPROCS(0))
+	fmt.Printf("median %.3f s, %.1f MB/s; %d × %d, %d non-zeros, vocabulary %d\n", med, float64(last.bytes)/1e6/med, len(c.Rows), len(c.Terms), nnz, c.VocabularySize)
+	fmt.Printf("peak resident %.0f MiB; CSR %.0f MiB, kept vocabulary %.1f MiB; 1.5 × (CSR + vocabulary) + 64 MiB = %.0f MiB\n",
+		float64(peak)/1024, float64(csr)/(1<<20), float64(vocab)/(1<<20), 1.5*float64(csr+vocab)/(1<<20)+64)
+	fmt.Printf("checksum %s\n", checksum(last))
+}
+
+// ingestMaps is the worker and collector of cmd/assay/analyze.go.
+func ingestMaps(fsys fs.FS, opts textproc.Options, jobs int, minhash bool) (*result, error) {
+	type analysed struct {
+		counts map[string]int
+		forms  map[[2]string]int
+		sig    []uint32
+	}
+	var b sparsemat.Builder
+	res := &result{display: &textproc.DisplayForms{}}
+	var fp corpus.Fingerprint
+	newWorker := func() func(corpus.Document) analysed {
+		az := textproc.NewAnalyzer(opts)
+		var seq []uint64
+		return func(d corpus.Document) analysed {
+			r := analysed{counts: map[string]int{}, forms: map[[2]string]int{}}
+			seq = seq[:0]
+			az.Analyze(d.Text, func(term, surface string) {
+				r.counts[term]++
+				r.forms[[2]string{term, surface}]++
+				if minhash {
+					seq = append(seq, fnv64(term))
+				}
+			})
+			if minhash {
+				r.sig = make([]uint32, selection.MinHashes)
+				selection.MinHash(r.sig, shingles(seq), 0x5a55a1)
+			}
+			return r
+		}
+	}
+	_, err := corpus.WalkParallel(fsys, corpus.Options{}, jobs, newWorker, func(d corpus.Document, r analysed) error {
+		b.AddRow(r.counts)
+		for f, n := range r.forms {
+			res.display.AddN(f[0], f[1], n)
+		}
+		fp.Add(&d)
+		res.docs++
+		res.bytes += d.Size
+		res.sigs = append(res.sigs, r.sig...)
+		return nil
+	})
+	if err != nil {
+		return nil, err
+	}
+	res.fp = fp.String()
+	res.counts, err = b.Build(sparsemat.Pruning{MinDF: 2, MaxDFShare: 0.5})
+	return res, err
+}
+
+// ingestIDs is the proposed worker and collector.
+func ingestIDs(fsys fs.FS, opts textproc.Options, jobs int, minhash bool) (*result, error) {
+	type analysed struct {
+		row sparsemat.Row
+		sig []uint32
+	}
+	var b sparsemat.Builder
+	res := &result{display: &textproc.DisplayForms{}}
+	var fp corpus.Fingerprint
+	opts.TermID = b.Vocabulary().ID
+	var mu sync.Mutex
+	var analyzers []*textproc.Analyzer
+	newWorker := func() func(corpus.Document) analysed {
+		az := textproc.NewAnalyzer(opts)
+		mu.Lock()
+		analyzers = append(analyzers, az)
+		mu.Unlock()
+		var ids []int32
+		var rc sparsemat.RowCounter
+		var termHash []uint64 // by term ID, for -minhash
+		var seq []uint64
+		return func(d corpus.Document) analysed {
+			ids, _ = az.AnalyzeIDs(d.Text, ids[:0])
+			rc.AddAll(ids)
+			r := analysed{row: rc.Row()}
+			if minhash {
+				seq = seq[:0]
+				for _, id := range ids {
+					for int(id) >= len(termHash) {
+						termHash = append(termHash, 0)
+					}
+					if termHash[id] == 0 {
+						termHash[id] = fnv64(b.Vocabulary().Term(id))
+					}
+					seq = append(seq, termHash[id])
+				}
+				r.sig = make([]uint32, selection.MinHashes)
+				selection.MinHash(r.sig, shingles(seq), 0x5a55a1)
+			}
+			return r
+		}
+	}
+	_, err := corpus.WalkParallel(fsys, corpus.Options{}, jobs, newWorker, func(d corpus.Document, r analysed) error {
+		b.AddCounted(r.row)
+		fp.Add(&d)
+		res.docs++
+		res.bytes += d.Size
+		res.sigs = append(res.sigs, r.sig...)
+		return nil
+	})
+	if err != nil {
+		return nil, err
+	}
+	for _, az := range analyzers {
+		az.AddFormsTo(res.display)
+	}
+	res.fp = fp.String()
+	res.counts, err = b.Build(sparsemat.Pruning{MinDF: 2, MaxDFShare: 0.5})
+	return res, err
+}
+
+func fnv64(s string) uint64 {
+	h := uint64(0xcbf29ce484222325)
+	for i := 0; i < len(s); i++ {
+		h ^= uint64(s[i])
+		h *= 0x100000001b3
+	}
+	return h
+}
+
+func shingles(terms []uint64) []uint64 {
+	const n = 3
+	if len(terms) < n {
+		return terms
+	}
+	out := make([]uint64, 0, len(terms)-n+1)
+	for i := 0; i+n <= len(terms); i++ {
+		h := uint64(n)
+		for _, t := range terms[i : i+n] {
+			h = h*0x100000001b3 ^ t
+		}
+		out = append(out, h)
+	}
+	return out
+}
+
+// checksum hashes the matrix, its terms, DF and rows, the display form
+// and form counts of every kept term, the signatures and the fingerprint.
+func checksum(r *result) string {
+	h := sha256.New()
+	c := r.counts
+	raw := c.Matrix.RawMatrix()
+	w := func(v ...int) {
+		for _, x := range v {
+			h.Write(binary.LittleEndian.AppendUint64(nil, uint64(x)))
+		}
+	}
+	w(raw.I, raw.J, c.VocabularySize, c.Documents)
+	w(raw.Indptr...)
+	w(raw.Ind...)
+	for _, x := range raw.Data {
+		w(int(math.Float64bits(x)))
+	}
+	w(c.DF...)
+	w(c.Rows...)
+	w(c.EmptyRows...)
+	for _, t := range c.Terms {
+		h.Write([]byte(t + "\x00" + r.display.Form(t) + "\x00"))
+		for _, f := range r.display.Forms(t) {
+			h.Write([]byte(f.Form))
+			w(f.Count)
+		}
+	}
+	for _, s := range r.sigs {
+		w(int(s))
+	}
+	h.Write([]byte(r.fp))
+	return fmt.Sprintf("%x", h.Sum(nil)[:12])
+}
+
+// cpuSeconds returns the user and system CPU time of the process.
+func cpuSeconds() float64 {
+	var ru syscall.Rusage
+	syscall.Getrusage(syscall.RUSAGE_SELF, &ru)
+	return float64(ru.Utime.Nano()+ru.Stime.Nano()) / 1e9
+}
+
+func rssKB(field string) int {
+	b, err := os.ReadFile("/proc/self/status")
+	if err != nil {
+		return 0
+	}
+	for _, line := range strings.Split(string(b), "\n") {
+		if strings.HasPrefix(line, field+":") {
+			var n int
+			fmt.Sscanf(strings.TrimPrefix(line, field+":"), "%d", &n)
+			return n
+		}
+	}
+	return 0
+}

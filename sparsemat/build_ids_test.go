@@ -1,0 +1,201 @@
+package sparsemat
+
+import (
+	"fmt"
+	"math/rand/v2"
+	"reflect"
+	"slices"
+	"sync"
+	"testing"
+)
+
+// The three ways of adding rows (term → count maps, sorted ID rows, rows
+// made by a RowCounter) must build the same matrix, whatever order the
+// vocabulary gave out its IDs in: Build orders the columns by term.
+func TestAddPathsBuildTheSameMatrix(t *testing.T) {
+	r := rand.New(rand.NewPCG(9, 9))
+	terms := make([]string, 300)
+	for j := range terms {
+		terms[j] = fmt.Sprintf("w%03d", j)
+	}
+	docs := make([]map[string]int, 200)
+	for i := range docs {
+		docs[i] = map[string]int{}
+		if i%37 == 5 {
+			continue // an empty document
+		}
+		for range 1 + r.IntN(40) {
+			docs[i][terms[min(r.IntN(300), r.IntN(300))]] += 1 + r.IntN(3)
+		}
+		if i%50 == 7 {
+			docs[i]["big"] = 1<<31 - 1 // the largest count
+		}
+	}
+	var byMap, byIDs, byCounter Builder
+	for _, d := range docs {
+		byMap.AddRow(d)
+	}
+	// IDs given out in another order than the maps' first sight.
+	perm := r.Perm(len(terms))
+	for _, p := range perm {
+		byIDs.Vocabulary().ID(terms[p])
+		byCounter.Vocabulary().ID(terms[p])
+	}
+	// sortedRow returns d as sorted IDs of b's vocabulary and counts.
+	sortedRow := func(b *Builder, d map[string]int) (cols, counts []int32) {
+		for term := range d {
+			cols = append(cols, b.Vocabulary().ID(term))
+		}
+		slices.Sort(cols)
+		for _, id := range cols {
+			counts = append(counts, int32(d[b.vocab.terms[id]]))
+		}
+		return cols, counts
+	}
+	var rc RowCounter
+	for _, d := range docs {
+		byIDs.AddRowIDs(sortedRow(&byIDs, d))
+		if _, ok := d["big"]; ok {
+			// A RowCounter counts one occurrence at a time; this row
+			// goes through AddRowIDs.
+			byCounter.AddRowIDs(sortedRow(&byCounter, d))
+			continue
+		}
+		for term, c := range d {
+			for range c {
+				rc.Add(byCounter.Vocabulary().ID(term))
+			}
+		}
+		byCounter.AddCounted(rc.Row())
+	}
+	for _, p := range []Pruning{{}, {MinDF: 2, MaxDFShare: 0.5}, {MinDF: 3, MaxDFShare: 0.9}} {
+		want, err := byMap.Build(p)
+		if err != nil {
+			t.Fatal(err)
+		}
+		checkCSR(t, want.Matrix)
+		for name, b := range map[string]*Builder{"AddRowIDs": &byIDs, "AddCounted": &byCounter} {
+			got, err := b.Build(p)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !reflect.DeepEqual(got.Matrix.RawMatrix(), want.Matrix.RawMatrix()) ||
+				!slices.Equal(got.Terms, want.Terms) || !slices.Equal(got.DF, want.DF) ||
+				!slices.Equal(got.Rows, want.Rows) || !slices.Equal(got.EmptyRows, want.EmptyRows) ||
+				got.VocabularySize != want.VocabularySize || got.Documents != want.Documents {
+				t.Errorf("%s, %+v: the matrix differs from AddRow's", name, p)
+			}
+		}
+	}
+}
+
+// A term given an ID but found in no row is not part of the vocabulary,
+// even with MinDF 0.
+func TestBuildIgnoresUnusedIDs(t *testing.T) {
+	var b Builder
+	b.Vocabulary().ID("unused")
+	id := b.Vocabulary().ID("used")
+	b.AddRowIDs([]int32{id}, []int32{2})
+	c, err := b.Build(Pruning{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Equal(c.Terms, []string{"used"}) || c.VocabularySize != 1 {
+		t.Fatalf("terms %v, vocabulary %d; want [used] and 1", c.Terms, c.VocabularySize)
+	}
+}
+
+func TestAddRowIDsPanics(t *testing.T) {
+	for name, f := range map[string]func(b *Builder){
+		"out of order":       func(b *Builder) { b.AddRowIDs([]int32{1, 0}, []int32{1, 1}) },
+		"repeated":           func(b *Builder) { b.AddRowIDs([]int32{0, 0}, []int32{1, 1}) },
+		"zero count":         func(b *Builder) { b.AddRowIDs([]int32{0}, []int32{0}) },
+		"unknown ID":         func(b *Builder) { b.AddRowIDs([]int32{7}, []int32{1}) },
+		"lengths":            func(b *Builder) { b.AddRowIDs([]int32{0}, nil) },
+		"counted unknown ID": func(b *Builder) { var rc RowCounter; rc.Add(9); b.AddCounted(rc.Row()) },
+	} {
+		t.Run(name, func(t *testing.T) {
+			var b Builder
+			b.Vocabulary().ID("a")
+			b.Vocabulary().ID("b")
+			defer func() {
+				if recover() == nil {
+					t.Error("no panic")
+				}
+			}()
+			f(&b)
+		})
+	}
+}
+
+// Goroutines may ask for IDs at the same time (run with -race); every
+// term gets one ID, and distinct terms distinct IDs.
+func TestVocabularyConcurrent(t *testing.T) {
+	var v Vocabulary
+	var wg sync.WaitGroup
+	got := make([][]int32, 4)
+	for g := range got {
+		wg.Go(func() {
+			for j := range 1000 {
+				got[g] = append(got[g], v.ID(fmt.Sprint((j*7+g*13)%1000)))
+			}
+		})
+	}
+	wg.Wait()
+	if v.Len() != 1000 {
+		t.Fatalf("%d IDs for 1000 terms", v.Len())
+	}
+	for g := range got {
+		for j, id := range got[g] {
+			if want := v.ID(fmt.Sprint((j*7 + g*13) % 1000)); id != want {
+				t.Fatalf("term %d: ID %d, then %d", j, id, want)
+			}
+		}
+	}
+}
+
+// An empty row is a document without terms: it is listed in EmptyRows.
+func TestRowCounterEmptyRow(t *testing.T) {
+	var b Builder
+	var rc RowCounter
+	rc.Add(b.Vocabulary().ID("a"))
+	b.AddCounted(rc.Row())
+	b.AddCounted(rc.Row()) // nothing counted since
+	c, err := b.Build(Pruning{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Equal(c.EmptyRows, []int{1}) || c.Matrix.At(0, 0) != 1 {
+		t.Fatalf("empty rows %v, count %g", c.EmptyRows, c.Matrix.At(0, 0))
+	}
+}
+
+// sortEntries must sort like slices.Sort, at every length and width.
+func TestSortEntries(t *testing.T) {
+	r := rand.New(rand.NewPCG(11, 12))
+	var tmp []uint64
+	for _, idBits := range []int{1, 7, 8, 9, 16, 17, 24, 31} {
+		for _, n := range []int{0, 1, 2, 47, 48, 49, 150, 1000} {
+			n = min(n, 1<<idBits)
+			cols := r.Perm(1 << min(idBits, 16))
+			var packed []uint64
+			for k := range n {
+				col := uint64(cols[k%len(cols)])
+				if idBits > 16 {
+					col = col<<(idBits-16) | uint64(k)>>(16-min(16, idBits-16))&(1<<(idBits-16)-1)
+				}
+				packed = append(packed, col<<32|uint64(r.Uint32()))
+			}
+			slices.SortFunc(packed, func(x, y uint64) int { return int(int64(x>>32) - int64(y>>32)) })
+			want := slices.Clone(packed)
+			r.Shuffle(len(packed), func(i, j int) { packed[i], packed[j] = packed[j], packed[i] })
+			var got []uint64
+			got, tmp = sortEntries(packed, tmp, idBits)
+			for k := range got {
+				if got[k]>>32 != want[k]>>32 {
+					t.Fatalf("idBits %d, n %d: column %d at %d, want %d", idBits, n, got[k]>>32, k, want[k]>>32)
+				}
+			}
+		}
+	}
+}

@@ -1,0 +1,243 @@
+package textproc
+
+import (
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"slices"
+	"strings"
+	"testing"
+)
+
+// The analyzer's fast paths (ASCII text tokenised without normalising,
+// mostly-ASCII text normalised a stretch at a time, one memo look-up per
+// token, detection from the memo, AnalyzeIDs) must give exactly what the
+// plain path gives: the tokens of tokenizer.run(Normalize(text)), and with
+// NoMemo the analysis of every token afresh. These tests compare the two
+// on tricky and random text.
+
+// trickyPieces are the pieces random test texts are made of: ASCII of
+// every class, apostrophes of the three kinds, combining marks (which
+// compose with the letter before them under NFC), characters that case
+// folding expands or turns into ASCII (ß, ẞ, ﬁ, İ, the Kelvin sign),
+// U+0345 (a combining mark that folds to a letter), final sigma, Hangul
+// jamo (which NFC composes) and syllables, Han, kana with U+30FC, Thai
+// with vowel signs, Cyrillic with ё, a variation selector, a
+// no-break space, dashes and quotes, and invalid UTF-8.
+var trickyPieces = []string{
+	"a", "Z", "q", "7", " ", ".", "-", "'", "'s", "\u2019", "\u02bc", "_", "\n", "\t",
+	"e\u0301", "E\u0301", "\u0301", "\u0323", "\u0308", "a\u0323\u0301", "\u00e9", "\u00c9",
+	"\u00df", "\u1e9e", "\ufb01", "\u0130", "\u212a", "\u212b", "\u0345", "\u03a3", "\u03c2", "\u0391\u0345",
+	"\u1100", "\u1161", "\u11a8", "\ud55c", "\u6c34\u9053", "\u30ab\u30fc", "\u0e19\u0e49\u0e33",
+	"\u0401", "\u0451\u0436", "\ufe0f", "\u00a0", "\u2014", "\u201c", "\u00bd", "\u0662",
+	"\xff", "\xe2\x80", "\xc3", "\xed\xa0\x80",
+}
+
+func randomTricky(r *rand.Rand, asciiBias int) string {
+	var b strings.Builder
+	for range 1 + r.IntN(40) {
+		if r.IntN(asciiBias+1) > 0 {
+			b.WriteString(trickyPieces[r.IntN(14)]) // the ASCII pieces
+		} else {
+			b.WriteString(trickyPieces[r.IntN(len(trickyPieces))])
+		}
+	}
+	return b.String()
+}
+
+func lowerASCII(s string) string {
+	b := []byte(s)
+	for i, c := range b {
+		if 'A' <= c && c <= 'Z' {
+			b[i] = c + 'a' - 'A'
+		}
+	}
+	return string(b)
+}
+
+func tokenDump(t *tokenizer) []string {
+	var out []string
+	for _, ref := range t.refs {
+		out = append(out, string(rune('0'+ref.kind))+string(rune('0'+ref.script))+string(t.token(ref)))
+	}
+	return out
+}
+
+// checkNormalization compares the fast normalisation and tokenising of
+// text with the plain path.
+func checkNormalization(t *testing.T, text string) {
+	t.Helper()
+	a := NewAnalyzer(Options{})
+	want := a.Normalize(text)
+	for name, got := range map[string]string{
+		"stretches": a.normalizeStretches(text),
+		"whole":     a.normalizeWhole(text),
+		"chosen":    a.normalized(text),
+	} {
+		if lowerASCII(got) != want {
+			t.Fatalf("%s(%q) = %q, want %q", name, text, got, want)
+		}
+	}
+	var plain tokenizer
+	plain.run(want)
+	a.tokenize(text)
+	if got, want := tokenDump(&a.tok), tokenDump(&plain); !slices.Equal(got, want) {
+		t.Fatalf("tokens of %q: %q, want %q", text, got, want)
+	}
+}
+
+func TestFastNormalizationMatchesNormalize(t *testing.T) {
+	r := rand.New(rand.NewPCG(3, 4))
+	for _, bias := range []int{0, 3, 30} {
+		for range 3000 {
+			checkNormalization(t, randomTricky(r, bias))
+		}
+	}
+	for _, s := range trickyPieces {
+		for _, ctx := range []string{"%s", "x%s", "X%sy", "%s%s", " %sZ", "E%s\u0301"} {
+			checkNormalization(t, strings.ReplaceAll(ctx, "%s", s))
+		}
+	}
+}
+
+// analysisDump is everything Analyze gives for a sequence of documents:
+// each document's pairs and language, and the detection counts.
+func analysisDump(a *Analyzer, docs []string) []string {
+	var out []string
+	for _, d := range docs {
+		lang := a.Analyze(d, func(term, surface string) { out = append(out, term+"\x00"+surface) })
+		det := a.LastDetection()
+		out = append(out, "lang="+string(lang), strings.Join([]string{string(det.Lang), string(det.Best), string(det.Second)}, ","),
+			string(rune(det.BestScore)), string(rune(det.SecondScore)), string(rune(det.BestStops)), string(rune(det.Tokens)))
+	}
+	return out
+}
+
+func fixtureTexts(t *testing.T) []string {
+	var docs []string
+	files, _ := filepath.Glob(filepath.Join("testdata", "langid", "*", "*.txt"))
+	for _, f := range files {
+		b, err := os.ReadFile(f)
+		if err != nil {
+			t.Fatal(err)
+		}
+		docs = append(docs, string(b), strings.ToUpper(string(b)))
+	}
+	return docs
+}
+
+// TestMemoMatchesNoMemo analyses the same documents with one reused
+// analyzer (memo on) and without the memo, under several options.
+func TestMemoMatchesNoMemo(t *testing.T) {
+	r := rand.New(rand.NewPCG(5, 6))
+	docs := fixtureTexts(t)
+	for range 500 {
+		docs = append(docs, randomTricky(r, r.IntN(20)))
+	}
+	docs = append(docs, "don't won't l'eau qu'aujourd'hui jusqu'à ё ёлка ЁЛКА a'b'c'd the'and'of", "Ещё и уже", "")
+	// One token in several languages (English, French, Undetermined),
+	// tokens around the length a slot holds, and enough distinct tokens
+	// for the table to grow several times.
+	docs = append(docs, "the riverbanks and the rain on the hill with riverbanks",
+		"le riverbanks et la pluie sur le mont avec riverbanks", "riverbanks riverbanks", "the riverbanks and the rain")
+	for _, n := range []int{10, 11, 12, 15, 16, 17, 31, 32, 33, 100} {
+		w := strings.Repeat("ab", n)[:n]
+		docs = append(docs, "the "+w+" and "+w+"'s "+w+"x of", w[:n-1]+" "+w)
+	}
+	var many strings.Builder
+	for i := range 20000 {
+		many.WriteString(strings.Repeat(string(rune('a'+i%26)), 1+i%19))
+		many.WriteString(string(rune('a'+i/26%26)) + string(rune('a'+i/676%26)) + " the ")
+	}
+	docs = append(docs, many.String(), many.String())
+	for _, opts := range []Options{
+		{}, {Lang: English}, {Lang: French}, {Lang: Russian}, {Lang: Undetermined},
+		{NoStem: true}, {KeepNumbers: true, MinLength: 1}, {MinLength: 4, Lang: Spanish},
+	} {
+		memo := analysisDump(NewAnalyzer(opts), docs)
+		opts.NoMemo = true
+		plain := analysisDump(NewAnalyzer(opts), docs)
+		if !slices.Equal(memo, plain) {
+			for i := range min(len(memo), len(plain)) {
+				if memo[i] != plain[i] {
+					t.Fatalf("%+v: first difference at %d: memo %q, no memo %q", opts, i, memo[i], plain[i])
+				}
+			}
+			t.Fatalf("%+v: %d items with the memo, %d without", opts, len(memo), len(plain))
+		}
+	}
+}
+
+// TestAnalyzeIDsMatchesAnalyze checks that AnalyzeIDs reports the terms
+// of Analyze, through TermID, and that AddFormsTo adds the forms Analyze
+// emits, with and without the memo.
+func TestAnalyzeIDsMatchesAnalyze(t *testing.T) {
+	docs := fixtureTexts(t)
+	r := rand.New(rand.NewPCG(7, 8))
+	for range 200 {
+		docs = append(docs, randomTricky(r, 5))
+	}
+	for _, noMemo := range []bool{false, true} {
+		var terms []string
+		ids := map[string]int32{}
+		termID := func(term string) int32 {
+			id, ok := ids[term]
+			if !ok {
+				id = int32(len(terms))
+				ids[term] = id
+				terms = append(terms, term)
+			}
+			return id
+		}
+		withIDs := NewAnalyzer(Options{NoMemo: noMemo, TermID: termID})
+		plain := NewAnalyzer(Options{NoMemo: true})
+		var wantForms, gotForms DisplayForms
+		var buf []int32
+		for _, d := range docs {
+			var want []string
+			wantLang := plain.Analyze(d, func(term, surface string) {
+				want = append(want, term)
+				wantForms.Add(term, surface)
+			})
+			var lang Language
+			buf, lang = withIDs.AnalyzeIDs(d, buf[:0])
+			var got []string
+			for _, id := range buf {
+				got = append(got, terms[id])
+			}
+			if lang != wantLang || !slices.Equal(got, want) {
+				t.Fatalf("noMemo=%v: AnalyzeIDs(%q) = %q (%s), want %q (%s)", noMemo, d, got, lang, want, wantLang)
+			}
+		}
+		withIDs.AddFormsTo(&gotForms)
+		if len(gotForms.forms) != len(wantForms.forms) {
+			t.Fatalf("noMemo=%v: forms of %d terms, want %d", noMemo, len(gotForms.forms), len(wantForms.forms))
+		}
+		for term := range wantForms.forms {
+			if got, want := gotForms.Forms(term), wantForms.Forms(term); !slices.Equal(got, want) {
+				t.Fatalf("noMemo=%v: forms of %q: %v, want %v", noMemo, term, got, want)
+			}
+		}
+		// The counts were handed over: a second call adds nothing.
+		var again DisplayForms
+		withIDs.AddFormsTo(&again)
+		if len(again.forms) != 0 {
+			t.Fatalf("noMemo=%v: AddFormsTo twice added %d terms", noMemo, len(again.forms))
+		}
+	}
+}
+
+// FuzzAnalyzeFastPaths is the comparisons above on any input; its seeds
+// run with the ordinary tests.
+func FuzzAnalyzeFastPaths(f *testing.F) {
+	for _, s := range trickyPieces {
+		f.Add("Ab " + s + "c'd")
+	}
+	f.Fuzz(func(t *testing.T, text string) {
+		checkNormalization(t, text)
+		docs := []string{text, text, strings.ToUpper(text)}
+		if memo, plain := analysisDump(NewAnalyzer(Options{}), docs), analysisDump(NewAnalyzer(Options{NoMemo: true}), docs); !slices.Equal(memo, plain) {
+			t.Fatalf("memo %q, no memo %q", memo, plain)
+		}
+	})
+}
