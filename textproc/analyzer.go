@@ -67,7 +67,8 @@ type Analyzer struct {
 	multi   [][numStemmed]int32
 	grams   map[string]int32 // bigram -> index in entries
 	entries []memoEntry
-	at      []int32 // per token of the current document: its slot in words (word) or its entry (bigram)
+	at      []int32  // per token of the current document: its slot in words (word) or its entry (bigram)
+	sc      []script // per token of the current document: the script of a word, or scriptGram
 
 	// The surface forms counted by AnalyzeIDs without the memo.
 	forms map[[2]string]int
@@ -108,6 +109,7 @@ func NewAnalyzer(opts Options) *Analyzer {
 	if !opts.NoMemo {
 		a.memo = true
 		a.grams = make(map[string]int32)
+		a.words.grow(nil)
 	}
 	return a
 }
@@ -236,22 +238,22 @@ func firstNonASCII(s string) int {
 // language or Undetermined. The strings passed to emit stay valid after
 // emit returns.
 func (a *Analyzer) Analyze(text string, emit func(term, surface string)) Language {
-	a.tokenize(text)
 	if !a.memo {
+		a.tokenize(text)
 		return a.analyzeNoMemo(emit)
 	}
-	doc := a.lookUp()
+	doc := a.lookUp(text)
 	docScript := langTable[doc].script
-	for k, ref := range a.tok.refs {
+	for k, si := range a.at {
 		var e *memoEntry
-		if ref.kind == tokGram {
-			e = &a.entries[a.at[k]]
+		if sc := a.sc[k]; sc == scriptGram {
+			e = &a.entries[si]
 		} else {
 			li := doc
-			if ref.script != docScript {
+			if sc != docScript {
 				li = idxUnd // a number, or a word in another script
 			}
-			e = &a.entries[a.wordEntry(a.at[k], li)]
+			e = &a.entries[a.wordEntry(si, li)]
 		}
 		if e.term != "" {
 			emit(e.term, e.surface)
@@ -279,42 +281,18 @@ func (a *Analyzer) AnalyzeIDs(text string, ids []int32) ([]int32, Language) {
 		})
 		return ids, lang
 	}
-	a.tokenize(text)
-	if a.fixed >= 0 {
-		// No detection: each token is looked up and counted in one pass.
-		doc := a.fixed
-		docScript := langTable[doc].script
-		a.words.reserve(len(a.tok.refs), a.toks)
-		for _, ref := range a.tok.refs {
-			b := a.tok.token(ref)
-			if ref.kind == tokGram {
-				if e := &a.entries[a.gramEntry(b)]; e.term != "" {
-					ids = a.countEntry(ids, e)
-				}
-				continue
-			}
-			li := doc
-			if ref.script != docScript {
-				li = idxUnd
-			}
-			ids = a.countWord(ids, a.wordSlot(b, ref.script), li)
-		}
-		return ids, langTable[doc].lang
-	}
-	doc := a.lookUp()
+	doc := a.lookUp(text)
 	docScript := langTable[doc].script
-	for k, ref := range a.tok.refs {
-		if ref.kind == tokGram {
-			if e := &a.entries[a.at[k]]; e.term != "" {
+	for k, si := range a.at {
+		if sc := a.sc[k]; sc == scriptGram {
+			if e := &a.entries[si]; e.term != "" {
 				ids = a.countEntry(ids, e)
 			}
-			continue
+		} else if sc == docScript {
+			ids = a.countWord(ids, si, doc)
+		} else {
+			ids = a.countWord(ids, si, idxUnd) // a number, or a word in another script
 		}
-		li := doc
-		if ref.script != docScript {
-			li = idxUnd
-		}
-		ids = a.countWord(ids, a.at[k], li)
 	}
 	return ids, langTable[doc].lang
 }
@@ -348,17 +326,6 @@ func (a *Analyzer) countWord(ids []int32, si int32, li int) []int32 {
 		ids = append(ids, s.id)
 	}
 	return ids
-}
-
-// wordSlot returns the slot of the word token b, whose first letter is of
-// script sc, adding it if it is new. The table must have room
-// (wordTable.reserve).
-func (a *Analyzer) wordSlot(b []byte, sc script) int32 {
-	i, ok := a.words.find(b, hashToken(b), a.toks)
-	if !ok {
-		a.newToken(i, b, sc)
-	}
-	return int32(i)
 }
 
 // gramEntry returns the entry of the bigram-script token b, adding it if
@@ -435,19 +402,20 @@ func (a *Analyzer) analyzeNoMemo(emit func(term, surface string)) Language {
 	return langTable[doc].lang
 }
 
-// lookUp finds the memo of every token of the current document (adding
-// the new ones), settles the document's language and returns its index in
-// langTable.
-func (a *Analyzer) lookUp() int {
-	refs := a.tok.refs
-	a.at = a.at[:0]
-	a.words.reserve(len(refs), a.toks)
-	for _, ref := range refs {
+// lookUp splits text into tokens and finds the memo of each (adding the
+// new ones), in a.at (the slot of a word, the entry of a bigram) and a.sc
+// (the script of a word, scriptGram for a bigram); then it settles the
+// document's language and returns its index in langTable.
+func (a *Analyzer) lookUp(text string) int {
+	a.at, a.sc = a.at[:0], a.sc[:0]
+	a.tokenize(text)
+	for _, ref := range a.tok.refs {
 		b := a.tok.token(ref)
 		if ref.kind == tokGram {
 			a.at = append(a.at, a.gramEntry(b))
+			a.sc = append(a.sc, scriptGram)
 		} else {
-			a.at = append(a.at, a.wordSlot(b, ref.script))
+			a.addWord(b, ref.script)
 		}
 	}
 	if a.fixed >= 0 {
@@ -457,8 +425,8 @@ func (a *Analyzer) lookUp() int {
 		stops, marks   [numStemmed]int
 		nLatin, nCyril int
 	)
-	for k, ref := range refs {
-		if ref.kind != tokWord || (ref.script != scriptLatin && ref.script != scriptCyrillic) {
+	for k, sc := range a.sc {
+		if sc != scriptLatin && sc != scriptCyrillic {
 			continue
 		}
 		s := &a.words.slots[a.at[k]]
@@ -472,7 +440,7 @@ func (a *Analyzer) lookUp() int {
 				}
 			}
 		}
-		if ref.script == scriptCyrillic {
+		if sc == scriptCyrillic {
 			nCyril += pieces
 		} else {
 			nLatin += pieces
@@ -487,6 +455,36 @@ func (a *Analyzer) lookUp() int {
 	a.last = decide(&stops, &marks, nLatin, nCyril)
 	doc, _ := langIndex(a.last.Lang)
 	return doc
+}
+
+// addWord looks up the word token b, whose first letter is of script sc
+// (scriptNone for a number), adding it if it is new, and appends its slot
+// and script to a.at and a.sc.
+func (a *Analyzer) addWord(b []byte, sc script) {
+	h := hashToken(b)
+	i, ok := a.words.find(b, h, a.toks)
+	if !ok {
+		if 2*(a.words.used+1) > len(a.words.slots) {
+			a.growWords()
+			i, _ = a.words.find(b, h, a.toks)
+		}
+		a.newToken(i, b, sc)
+	}
+	a.at = append(a.at, int32(i))
+	a.sc = append(a.sc, sc)
+}
+
+// growWords doubles the word table and moves the slots of the current
+// document's words in a.at to their new places.
+func (a *Analyzer) growWords() {
+	old := a.words.slots
+	a.words.grow(a.toks)
+	for k, sc := range a.sc {
+		if sc != scriptGram {
+			s := &old[a.at[k]]
+			a.at[k] = int32(a.words.slotOf(s, a.toks))
+		}
+	}
 }
 
 // newToken fills slot i of the word table with the new word token b,

@@ -7,7 +7,16 @@ import "sort"
 // [SplitTerm]), so the forms of "fr:maison" are French surface words only.
 // The zero value is ready to use.
 type DisplayForms struct {
-	forms map[string]map[string]int
+	index map[string]int32 // stem -> index in sets
+	sets  []formSet
+}
+
+// formSet holds the forms of one stem: most stems have one or two, so the
+// first is kept inline and the others in a short list (a map per stem
+// would take several times the memory).
+type formSet struct {
+	first FormCount
+	more  []FormCount
 }
 
 // Add records one occurrence of surface as a form of stem.
@@ -15,15 +24,28 @@ func (d *DisplayForms) Add(stem, surface string) { d.AddN(stem, surface, 1) }
 
 // AddN records n occurrences of surface as a form of stem.
 func (d *DisplayForms) AddN(stem, surface string, n int) {
-	if d.forms == nil {
-		d.forms = make(map[string]map[string]int)
+	i, ok := d.index[stem]
+	if !ok {
+		if d.index == nil {
+			d.index = make(map[string]int32)
+		}
+		i = int32(len(d.sets))
+		d.index[stem] = i
+		d.sets = append(d.sets, formSet{first: FormCount{Form: surface, Count: n}})
+		return
 	}
-	m := d.forms[stem]
-	if m == nil {
-		m = make(map[string]int, 1)
-		d.forms[stem] = m
+	set := &d.sets[i]
+	if set.first.Form == surface {
+		set.first.Count += n
+		return
 	}
-	m[surface] += n
+	for k := range set.more {
+		if set.more[k].Form == surface {
+			set.more[k].Count += n
+			return
+		}
+	}
+	set.more = append(set.more, FormCount{Form: surface, Count: n})
 }
 
 // Form returns the most frequent surface form of stem, ties broken by the
@@ -31,10 +53,19 @@ func (d *DisplayForms) AddN(stem, surface string, n int) {
 // key (see [SplitTerm]).
 func (d *DisplayForms) Form(stem string) string {
 	_, best := SplitTerm(stem)
+	i, ok := d.index[stem]
+	if !ok {
+		return best
+	}
+	set := &d.sets[i]
 	bestN := 0
-	for s, n := range d.forms[stem] {
-		if n > bestN || (n == bestN && s < best) {
-			best, bestN = s, n
+	for k := -1; k < len(set.more); k++ {
+		f := set.first
+		if k >= 0 {
+			f = set.more[k]
+		}
+		if f.Count > bestN || (f.Count == bestN && f.Form < best) {
+			best, bestN = f.Form, f.Count
 		}
 	}
 	return best
@@ -43,10 +74,12 @@ func (d *DisplayForms) Form(stem string) string {
 // Forms returns every surface form of stem with its count, most frequent
 // first, ties by the smaller string.
 func (d *DisplayForms) Forms(stem string) []FormCount {
-	out := make([]FormCount, 0, len(d.forms[stem]))
-	for s, n := range d.forms[stem] {
-		out = append(out, FormCount{Form: s, Count: n})
+	i, ok := d.index[stem]
+	if !ok {
+		return []FormCount{}
 	}
+	set := &d.sets[i]
+	out := append([]FormCount{set.first}, set.more...)
 	sort.Slice(out, func(i, j int) bool {
 		if out[i].Count != out[j].Count {
 			return out[i].Count > out[j].Count
@@ -55,6 +88,9 @@ func (d *DisplayForms) Forms(stem string) []FormCount {
 	})
 	return out
 }
+
+// Len returns the number of stems with a form.
+func (d *DisplayForms) Len() int { return len(d.sets) }
 
 // FormCount is one surface form of a stem and how often it was seen.
 type FormCount struct {

@@ -112,10 +112,33 @@
 // [DetectLanguage] and [Analyzer.LastDetection] give the counts behind a
 // decision.
 //
+// # Counting terms for a matrix
+//
+// [Analyzer.AnalyzeIDs] gives the same terms as [Analyzer.Analyze], as
+// numbers from [Options.TermID] (a shared, concurrency-safe vocabulary
+// such as sparsemat.Vocabulary's ID), so that a goroutine that analyses
+// documents can count them without building strings or maps; it also
+// counts the surface forms it sees, which [Analyzer.AddFormsTo] adds to a
+// [DisplayForms] (sums, so the forms of several analyzers can be added in
+// any order).
+//
+// # Speed
+//
+// The analyzer keeps the result of every distinct token (the memo), so
+// that after the first sight a token costs one look-up in a hash table
+// whose slots hold short tokens and their analysis in place. ASCII text
+// skips NFC and case folding (the tokenizer lower-cases ASCII letters,
+// which is all that folding does to them), and mostly-ASCII text sends
+// only the stretches around its other characters through them; the
+// package's tests check that both give exactly the tokens of the full
+// normalisation, and that the memo gives exactly the terms of
+// [Options.NoMemo].
+//
 // # Concurrency
 //
 // An Analyzer holds its memos and scratch buffers and is not safe for
-// concurrent use: give each goroutine its own. The stem function of each
+// concurrent use: give each goroutine its own ([Options.TermID] may be
+// shared when it is safe for concurrent use). The stem function of each
 // language is chosen once, when the package is initialised; the stop lists
 // and stemmers are shared and read-only. DisplayForms is not safe for
 // concurrent use either.

@@ -210,10 +210,10 @@ func TestAnalyzeIDsMatchesAnalyze(t *testing.T) {
 			}
 		}
 		withIDs.AddFormsTo(&gotForms)
-		if len(gotForms.forms) != len(wantForms.forms) {
-			t.Fatalf("noMemo=%v: forms of %d terms, want %d", noMemo, len(gotForms.forms), len(wantForms.forms))
+		if gotForms.Len() != wantForms.Len() {
+			t.Fatalf("noMemo=%v: forms of %d terms, want %d", noMemo, gotForms.Len(), wantForms.Len())
 		}
-		for term := range wantForms.forms {
+		for term := range wantForms.index {
 			if got, want := gotForms.Forms(term), wantForms.Forms(term); !slices.Equal(got, want) {
 				t.Fatalf("noMemo=%v: forms of %q: %v, want %v", noMemo, term, got, want)
 			}
@@ -221,8 +221,8 @@ func TestAnalyzeIDsMatchesAnalyze(t *testing.T) {
 		// The counts were handed over: a second call adds nothing.
 		var again DisplayForms
 		withIDs.AddFormsTo(&again)
-		if len(again.forms) != 0 {
-			t.Fatalf("noMemo=%v: AddFormsTo twice added %d terms", noMemo, len(again.forms))
+		if again.Len() != 0 {
+			t.Fatalf("noMemo=%v: AddFormsTo twice added %d terms", noMemo, again.Len())
 		}
 	}
 }

@@ -124,6 +124,7 @@ const (
 	scriptLatin                  // unicode.Latin
 	scriptCyrillic               // unicode.Cyrillic
 	scriptOther                  // any other script (Greek, Arabic, …)
+	scriptGram                   // not a script: marks a bigram token in Analyzer.sc
 )
 
 // langInfo is what the analyzer needs of one language. Everything in it is

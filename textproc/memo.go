@@ -98,28 +98,24 @@ func (t *wordTable) find(tok []byte, h uint64, toks []tokMemo) (int, bool) {
 	}
 }
 
-// reserve makes room for n more tokens without growing, so that slot
-// indices stay valid while a document's tokens are looked up.
-func (t *wordTable) reserve(n int, toks []tokMemo) {
-	if 2*(t.used+n) <= len(t.slots) {
-		return
-	}
-	size := max(len(t.slots), 1024)
-	for 2*(t.used+n) > size {
-		size *= 2
-	}
+// grow doubles the table (or makes its first 1024 slots).
+func (t *wordTable) grow(toks []tokMemo) {
 	old := t.slots
-	t.slots = make([]wslot, size)
+	t.slots = make([]wslot, max(2*len(old), 1024))
 	for i := range old {
-		s := &old[i]
-		if s.klen == 0 {
-			continue
+		if s := &old[i]; s.klen != 0 {
+			t.slots[t.slotOf(s, toks)] = *s
 		}
-		key := s.key[:min(int(s.klen), wKey)]
-		if s.klen == wLong {
-			key = []byte(toks[s.ti].key)
-		}
-		j, _ := t.find(key, hashToken(key), toks)
-		t.slots[j] = *s
 	}
+}
+
+// slotOf returns where the token of slot s (of this table or an older
+// one) is, or belongs, in the table.
+func (t *wordTable) slotOf(s *wslot, toks []tokMemo) int {
+	key := s.key[:min(int(s.klen), wKey)]
+	if s.klen == wLong {
+		key = []byte(toks[s.ti].key)
+	}
+	i, _ := t.find(key, hashToken(key), toks)
+	return i
 }
