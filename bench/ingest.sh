@@ -1,0 +1,204 @@
+#!/usr/bin/env bash
+# bench/ingest.sh [DEST] — ingest throughput, peak memory and scaling of
+# `assay pick`, side by side with a scikit-learn pipeline on the same files.
+#
+#   bench/ingest.sh                      # DEST = $ASSAY_CORPORA or ~/.cache/assay-corpora
+#   RUNS=5 bench/ingest.sh /tmp/corpora
+#   SIZES="10000" SKLEARN=0 bench/ingest.sh
+#   ASSAY=/path/to/assay bench/ingest.sh # measure a prebuilt binary
+#
+# Environment: RUNS (3) runs of everything, interleaved (run 1 of every
+# variant, then run 2, …) so that the machine's noise falls on all of them
+# alike; SIZES ("10000 100000") sizes of the generated corpora; SKLEARN (1)
+# also run bench/ingest_sklearn.py; PICK (1) also time a pick with 50 picks
+# on the largest generated corpus; PIPE (1) also run bench/ingestpipe (the
+# ingest alone, for its peak memory against the CSR); ASSAY a binary to use
+# instead of building cmd/assay; BASE another assay binary to run the same
+# picks with, side by side (a before/after comparison; its rows are
+# labelled "base").
+#
+# What it does: builds assay; makes sure /usr/bin/time (Debian's `time`)
+# is there; generates DEST/gen/gen-N with bench/gen (seed 1; redone when
+# bench/gen/main.go changes) and fetches SpamAssassin with
+# bench/fetch-corpora.sh when missing; then for each corpus runs
+#
+#   assay pick DIR --timings --format json -q --lang english
+#   assay pick DIR --timings --format json -q --lang english --no-stem
+#   assay pick DIR --timings --format json -q --lang auto
+#
+# under /usr/bin/time -f '%e %M' (wall seconds, peak resident KiB), and
+# bench/ingest_sklearn.py without and with stemming on the corpora of .txt
+# files. The ingest time is the report's timings.read (walk, read,
+# analyse, count, prune: the matrix ready to weight); MB/s is of the raw
+# input, the sum of the sizes of the files read. Results go to
+# DEST/ingest/runs.tsv and the tables to DEST/ingest/results.md (also
+# printed).
+set -euo pipefail
+cd "$(dirname "$0")/.."
+DEST=${1:-${ASSAY_CORPORA:-$HOME/.cache/assay-corpora}}
+RUNS=${RUNS:-3}
+SIZES=${SIZES:-"10000 100000"}
+SKLEARN=${SKLEARN:-1}
+PICK=${PICK:-1}
+PIPE=${PIPE:-1}
+PY=/usr/bin/python3
+OUT=$DEST/ingest
+mkdir -p "$OUT"
+TMP=$(mktemp -d)
+trap 'rm -rf "$TMP"' EXIT
+
+if [ -z "${ASSAY:-}" ]; then
+	ASSAY=$OUT/assay
+	go build -o "$ASSAY" ./cmd/assay
+fi
+if [ ! -x /usr/bin/time ]; then
+	echo "ingest.sh: installing Debian's time (for /usr/bin/time -f %M)" >&2
+	apt-get install -y time >/dev/null
+fi
+
+# The corpora: name, folder, extension of the files scikit-learn reads ("" = skip it).
+corpora=()
+gen_key=$(sha1sum bench/gen/main.go | cut -c1-12)
+for n in $SIZES; do
+	name=gen-$((n / 1000))k
+	dir=$DEST/gen/$name
+	if [ "$(cat "$dir.stamp" 2>/dev/null)" != "$n 1 $gen_key" ]; then
+		rm -rf "$dir"
+		go run ./bench/gen -n "$n" -seed 1 -out "$dir" >&2
+		echo "$n 1 $gen_key" >"$dir.stamp"
+	fi
+	corpora+=("$name $dir .txt")
+done
+if [ ! -d "$DEST/spamassassin-eml" ] || [ ! -d "$DEST/spamassassin" ]; then
+	bench/fetch-corpora.sh "$DEST" >&2
+fi
+corpora+=("spamassassin-eml $DEST/spamassassin-eml -" "spamassassin $DEST/spamassassin .txt")
+
+bytes_of() { find "$1" -type f ! -name '.*' -printf '%s\n' | awk '{s += $1} END {print s}'; }
+
+TSV=$OUT/runs.tsv
+printf 'corpus\ttool\tmode\trun\tseconds\twall\trss_kib\tbytes\tdocs\textra\n' >"$TSV"
+
+# assay_run CORPUS DIR MODE RUN ARGS…: one pick, one line of runs.tsv
+# (with the BASE binary when TOOL=base).
+assay_run() {
+	local corpus=$1 dir=$2 mode=$3 run=$4 bin=$ASSAY tool=${TOOL:-assay}
+	shift 4
+	[ "$tool" = base ] && bin=$BASE
+	/usr/bin/time -f '%e %M' -o "$TMP/time" "$bin" pick "$dir" --timings --format json -q "$@" >"$TMP/out.json" 2>"$TMP/err" || {
+		cat "$TMP/err" >&2
+		exit 1
+	}
+	read -r wall rss <"$TMP/time"
+	$PY - "$TMP/out.json" "$corpus" "$mode" "$run" "$wall" "$rss" "${BYTES[$corpus]}" "$tool" >>"$TSV" <<'EOF'
+import json, sys
+r = json.load(open(sys.argv[1]))
+t, i = r["timings"], r["input"]
+extra = "select=%s svd=%s rsvd=%s terms=%s nnz=%s vocab=%s" % (t["select"], t["svd"], t["randomized_svd_rank_k"], i["terms_kept"], i["nonzeros"], i["vocabulary"])
+print("\t".join([sys.argv[2], sys.argv[8], sys.argv[3], sys.argv[4], str(t["read"]), sys.argv[5], sys.argv[6], sys.argv[7], str(i["documents_read"]), extra]))
+EOF
+}
+
+# sklearn_run CORPUS DIR EXT MODE RUN
+sklearn_run() {
+	local corpus=$1 dir=$2 ext=$3 mode=$4 run=$5 flag=""
+	[ "$mode" = stem ] && flag=--stem
+	/usr/bin/time -f '%e %M' -o "$TMP/time" $PY bench/ingest_sklearn.py "$dir" --runs 1 --ext "$ext" $flag >"$TMP/py.json"
+	read -r wall rss <"$TMP/time"
+	$PY - "$TMP/py.json" "$corpus" "$mode" "$run" "$wall" "$rss" >>"$TSV" <<'EOF'
+import json, sys
+r = json.loads(open(sys.argv[1]).read().splitlines()[0])
+print("\t".join([sys.argv[2], "sklearn", sys.argv[3], sys.argv[4], str(r["seconds"]), sys.argv[5], sys.argv[6], str(r["bytes"]), str(r["documents"]), "terms=%d nnz=%d" % (r["terms"], r["nonzeros"])]))
+EOF
+}
+
+declare -A BYTES
+for c in "${corpora[@]}"; do
+	read -r name dir ext <<<"$c"
+	BYTES[$name]=$(bytes_of "$dir")
+done
+largest=""
+for n in $SIZES; do largest=gen-$((n / 1000))k; done
+
+for run in $(seq "$RUNS"); do
+	for c in "${corpora[@]}"; do
+		read -r name dir ext <<<"$c"
+		echo "ingest.sh: run $run/$RUNS: $name" >&2
+		for tool in assay ${BASE:+base}; do
+			TOOL=$tool assay_run "$name" "$dir" english "$run" --lang english
+			TOOL=$tool assay_run "$name" "$dir" english-nostem "$run" --lang english --no-stem
+			TOOL=$tool assay_run "$name" "$dir" auto "$run" --lang auto
+		done
+		if [ "$SKLEARN" = 1 ] && [ "$ext" != - ]; then
+			sklearn_run "$name" "$dir" "$ext" nostem "$run"
+			sklearn_run "$name" "$dir" "$ext" stem "$run"
+		fi
+	done
+	if [ "$PICK" = 1 ] && [ -n "$largest" ]; then
+		assay_run "$largest" "$DEST/gen/$largest" pick50 "$run" --lang english --docs 50 --terms 50 --rank 50
+	fi
+done
+
+if [ "$PIPE" = 1 ] && [ -n "$largest" ]; then
+	go build -o "$OUT/ingestpipe" ./bench/ingestpipe
+	"$OUT/ingestpipe" -dir "$DEST/gen/$largest" -runs "$RUNS" -collector ids >"$OUT/ingestpipe-ids.txt"
+	"$OUT/ingestpipe" -dir "$DEST/gen/$largest" -runs 1 -collector maps >"$OUT/ingestpipe-maps.txt"
+fi
+
+$PY - "$TSV" "$OUT" "$largest" <<'EOF' | tee "$OUT/results.md"
+import collections, statistics, sys, os
+rows = [l.rstrip("\n").split("\t") for l in open(sys.argv[1])][1:]
+out, largest = sys.argv[2], sys.argv[3]
+by = collections.defaultdict(list)
+info = {}
+for corpus, tool, mode, run, sec, wall, rss, nbytes, docs, extra in rows:
+    by[(corpus, tool, mode)].append((float(sec), float(wall), int(rss)))
+    info[(corpus, tool, mode)] = (int(nbytes), int(docs), dict(kv.split("=") for kv in extra.split()))
+med = lambda xs: statistics.median(xs)
+def m(key, i):
+    return med([r[i] for r in by[key]])
+corpora = list(dict.fromkeys(k[0] for k in by))
+print("### assay pick: ingest (timings.read), medians of %d runs\n" % len(next(iter(by.values()))))
+print("| corpus | documents | input MB | binary | mode | ingest s | ingest MB/s | whole pick s | peak RSS MiB |")
+print("| --- | --- | --- | --- | --- | --- | --- | --- | --- |")
+for c in corpora:
+    for mode in ("english", "english-nostem", "auto", "pick50"):
+        for tool in ("assay", "base"):
+            k = (c, tool, mode)
+            if k not in by:
+                continue
+            nb, docs, _ = info[k]
+            print("| %s | %d | %.1f | %s | %s | %.2f | %.1f | %.2f | %.0f |" % (c, docs, nb / 1e6, tool, mode, m(k, 0), nb / 1e6 / m(k, 0), m(k, 1), m(k, 2) / 1024))
+if any(k[1] == "base" for k in by):
+    print("\nbase / assay ingest time (medians): " + ", ".join("%s %s %.2f×" % (c, mode, m((c, "base", mode), 0) / m((c, "assay", mode), 0))
+          for c in corpora for mode in ("english", "english-nostem", "auto") if (c, "base", mode) in by))
+print("\n### side by side with scikit-learn (ratio = scikit-learn time / assay ingest time)\n")
+print("| corpus | scikit-learn, no stemming: s (MB/s) | assay --no-stem: s (MB/s) | ratio | scikit-learn, memoised Snowball: s (MB/s) | assay --lang english: s (MB/s) | ratio | assay auto: s |")
+print("| --- | --- | --- | --- | --- | --- | --- | --- |")
+for c in corpora:
+    if (c, "sklearn", "nostem") not in by:
+        continue
+    nb = info[(c, "sklearn", "nostem")][0]
+    pn, ps = m((c, "sklearn", "nostem"), 0), m((c, "sklearn", "stem"), 0)
+    an, ae, aa = m((c, "assay", "english-nostem"), 0), m((c, "assay", "english"), 0), m((c, "assay", "auto"), 0)
+    print("| %s | %.2f (%.1f) | %.2f (%.1f) | %.1f× | %.2f (%.1f) | %.2f (%.1f) | %.1f× | %.2f |" % (c, pn, nb / 1e6 / pn, an, nb / 1e6 / an, pn / an, ps, nb / 1e6 / ps, ae, nb / 1e6 / ae, ps / ae, aa))
+    ta, ts = info[(c, "assay", "english")][2], info[(c, "sklearn", "stem")][2]
+    print("|  | matrix: scikit-learn %s terms, %s non-zeros; assay %s terms, %s non-zeros |  |  |  |  |  |  |" % (ts["terms"], ts["nnz"], ta["terms"], ta["nnz"]))
+k = (largest, "assay", "pick50")
+if k in by:
+    rs = [r for r in rows if (r[0], r[1], r[2]) == k]
+    selects = [float(dict(kv.split("=") for kv in r[9].split())["select"]) for r in rs]
+    rsvds = [float(dict(kv.split("=") for kv in r[9].split())["rsvd"]) for r in rs]
+    svds = [float(dict(kv.split("=") for kv in r[9].split())["svd"]) for r in rs]
+    print("\n### pick on %s with --docs 50 --terms 50 --rank 50 (medians)\n" % largest)
+    print("| select s | its reference SVD s | one randomized SVD of rank 50 s | select / randomized SVD |")
+    print("| --- | --- | --- | --- |")
+    print("| %.2f | %.2f | %.2f | %.2f |" % (med(selects), med(svds), med(rsvds), med([s / r for s, r in zip(selects, rsvds)])))
+for name in ("ingestpipe-ids.txt", "ingestpipe-maps.txt"):
+    p = os.path.join(out, name)
+    if os.path.exists(p):
+        print("\n### bench/ingestpipe %s (%s)\n" % (largest, name[11:-4]))
+        print("```")
+        print(open(p).read().rstrip())
+        print("```")
+EOF
