@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io/fs"
+	"sync"
 
 	"assay/corpus"
 	selection "assay/select"
@@ -85,31 +86,96 @@ var errNoDocuments = errors.New("no readable documents")
 
 // analyze walks fsys, analyses each document as it is read (the text is
 // dropped straight after), and builds the pruned count matrix.
+//
+// The workers do all the per-document work: each has its own analyzer,
+// which numbers terms through the builder's shared, concurrency-safe
+// vocabulary (asked once per distinct token, thanks to the memo), counts
+// the numbers into an encoded row and computes the MinHash signature; the
+// collector, which restores walk order, only appends bytes. The surface
+// forms are counted inside each analyzer and summed once the walk is done.
+// The provisional term numbers depend on scheduling, but the matrix does
+// not: Build orders the columns by term, so the output is the same for
+// any --jobs.
 func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, error) {
 	readOpts := opts.Read
 	readOpts.MaxBytes = opts.MaxBytes
 	col := &collector{an: &analysis{}, opts: opts}
-	// Each worker reads, extracts and analyses documents with its own
-	// analyzer; the collector gets the results in walk order, so the
-	// matrix does not depend on --jobs.
-	skips, err := corpus.WalkParallel(fsys, readOpts, opts.Jobs, docWorker(opts), func(d corpus.Document, r analysed) error {
+	vocab := col.b.Vocabulary()
+	azOpts := analyzerOptions(opts)
+	azOpts.TermID = vocab.ID
+	withSig := opts.NearDup > 0
+	var (
+		mu        sync.Mutex
+		analyzers []*textproc.Analyzer
+	)
+	newWorker := func() func(corpus.Document) rowResult {
+		az := textproc.NewAnalyzer(azOpts)
+		mu.Lock()
+		analyzers = append(analyzers, az)
+		mu.Unlock()
+		var (
+			ids      []int32
+			rc       sparsemat.RowCounter
+			termHash []uint64 // fnv64 of each term, by provisional ID
+			seq      []uint64
+		)
+		return func(d corpus.Document) rowResult {
+			var r rowResult
+			ids, r.lang = az.AnalyzeIDs(d.Text, ids[:0])
+			rc.AddAll(ids)
+			r.row = rc.Row()
+			if withSig {
+				seq = seq[:0]
+				for _, id := range ids {
+					if int(id) >= len(termHash) {
+						termHash = append(termHash, make([]uint64, int(id)+1-len(termHash)+len(termHash)/2)...)
+					}
+					if termHash[id] == 0 {
+						termHash[id] = fnv64(vocab.Term(id))
+					}
+					seq = append(seq, termHash[id])
+				}
+				r.sig = make([]uint32, selection.MinHashes)
+				selection.MinHash(r.sig, shingles(seq), minHashSeed)
+			}
+			return r
+		}
+	}
+	skips, err := corpus.WalkParallel(fsys, readOpts, opts.Jobs, newWorker, func(d corpus.Document, r rowResult) error {
 		if err := ctx.Err(); err != nil {
 			return err
 		}
-		col.add(d, r)
+		col.b.AddCounted(r.row)
+		col.record(d, r.lang, r.sig)
 		return nil
 	})
 	if err != nil {
 		return nil, fmt.Errorf("read %s: %w", opts.Source, err)
 	}
+	for _, az := range analyzers {
+		az.AddFormsTo(&col.an.display)
+	}
+	analyzers = nil // the memos can go before the matrix is built
 	return col.finish(skips, col.fp.String())
+}
+
+// rowResult is what a worker of analyze found in one document.
+type rowResult struct {
+	row  sparsemat.Row
+	lang textproc.Language
+	sig  []uint32 // nil when near-copies are not looked for
+}
+
+// analyzerOptions are the text analysis options of a pick or an index.
+func analyzerOptions(opts pickOptions) textproc.Options {
+	return textproc.Options{MinLength: opts.MinLen, KeepNumbers: opts.Numbers, NoStem: opts.NoStem, Lang: opts.Lang}
 }
 
 // docWorker returns the constructor of the per-worker analysis function:
 // term counts, surface forms, language and the MinHash signature of a
 // document's word shingles.
 func docWorker(opts pickOptions) func() func(corpus.Document) analysed {
-	azOpts := textproc.Options{MinLength: opts.MinLen, KeepNumbers: opts.Numbers, NoStem: opts.NoStem, Lang: opts.Lang}
+	azOpts := analyzerOptions(opts)
 	return func() func(corpus.Document) analysed {
 		az := textproc.NewAnalyzer(azOpts)
 		var seq []uint64
@@ -137,18 +203,25 @@ type collector struct {
 	fp   corpus.Fingerprint
 }
 
-// add records one document (its Text is not needed).
+// add records one document given by its term and form counts (its Text
+// is not needed).
 func (c *collector) add(d corpus.Document, r analysed) {
 	c.b.AddRow(r.counts)
 	for f, n := range r.forms {
 		c.an.display.AddN(f[0], f[1], n)
 	}
+	c.record(d, r.lang, r.sig)
+}
+
+// record notes what the report needs of document d, whose terms are in
+// the builder already.
+func (c *collector) record(d corpus.Document, lang textproc.Language, sig []uint32) {
 	c.fp.Add(&d)
 	if c.opts.progress != nil {
 		c.opts.progress()
 	}
-	c.an.docs = append(c.an.docs, docInfo{ID: d.ID, Title: d.Title, Size: d.Size, Repaired: d.Repaired, Format: d.Format, Meta: d.Meta, Lang: r.lang})
-	c.an.sigs = append(c.an.sigs, r.sig...)
+	c.an.docs = append(c.an.docs, docInfo{ID: d.ID, Title: d.Title, Size: d.Size, Repaired: d.Repaired, Format: d.Format, Meta: d.Meta, Lang: lang})
+	c.an.sigs = append(c.an.sigs, sig...)
 }
 
 // finish prunes the vocabulary and builds the count matrix.
