@@ -3,6 +3,7 @@ package selection
 import (
 	"math"
 	"slices"
+	"sync/atomic"
 
 	"github.com/james-bowman/sparse"
 )
@@ -51,22 +52,77 @@ const (
 // MinHash writes the MinHash signature of a set of items (hashes of
 // shingles; repeats do not matter) into dst, which must hold MinHashes
 // values. An empty set gives all-ones.
+//
+// Each item is first mixed into a well-spread 64-bit value x (SplitMix64
+// of the item and the seed); the hash functions are then h_k(x) = the top
+// 32 bits of a_k·x + b_k (mod 2⁶⁴), with a_k odd and b_k drawn from the
+// seed: the multiply-add-shift family (Dietzfelbinger, "Universal hashing
+// and k-wise independent random variables via integer arithmetic without
+// primes", STACS 1996), which is universal. That costs one multiply and
+// one add a place, where mixing each place afresh costs two multiplies and
+// three shifts, and the loop over items for one place keeps its minimum in
+// a register.
 func MinHash(dst []uint32, items []uint64, seed uint64) {
 	if len(dst) != MinHashes {
 		panic("selection: MinHash needs a signature of MinHashes values")
 	}
-	for k := range dst {
-		dst[k] = math.MaxUint32
+	var local [512]uint64
+	xs := local[:0]
+	if len(items) > len(local) {
+		xs = make([]uint64, 0, len(items))
 	}
 	for _, it := range items {
-		base := splitmix(it ^ seed)
-		for k := range dst {
-			if h := uint32(splitmix(base+uint64(k)*0x9e3779b97f4a7c15) >> 32); h < dst[k] {
-				dst[k] = h
-			}
+		xs = append(xs, splitmix(it^seed))
+	}
+	c := coefficients(seed)
+	// Eight places at a time: each x is loaded once for eight independent
+	// minima.
+	for k := 0; k < MinHashes; k += 8 {
+		ab := c[k : k+8 : k+8]
+		var m [8]uint64
+		for i := range m {
+			m[i] = math.MaxUint64
+		}
+		for _, x := range xs {
+			m[0] = min(m[0], ab[0][0]*x+ab[0][1])
+			m[1] = min(m[1], ab[1][0]*x+ab[1][1])
+			m[2] = min(m[2], ab[2][0]*x+ab[2][1])
+			m[3] = min(m[3], ab[3][0]*x+ab[3][1])
+			m[4] = min(m[4], ab[4][0]*x+ab[4][1])
+			m[5] = min(m[5], ab[5][0]*x+ab[5][1])
+			m[6] = min(m[6], ab[6][0]*x+ab[6][1])
+			m[7] = min(m[7], ab[7][0]*x+ab[7][1])
+		}
+		for i, v := range m {
+			dst[k+i] = uint32(v >> 32)
 		}
 	}
 }
+
+// coefficients returns the (a_k, b_k) of MinHash's hash functions for a
+// seed, a_k odd; the last seed's are kept, since a run uses one.
+func coefficients(seed uint64) *[MinHashes][2]uint64 {
+	if c := lastCoefficients.Load(); c != nil && c.seed == seed {
+		return &c.ab
+	}
+	c := &seededCoefficients{seed: seed}
+	x := splitmix(seed ^ 0x6a09e667f3bcc908)
+	for k := range c.ab {
+		x = splitmix(x)
+		a := x | 1
+		x = splitmix(x)
+		c.ab[k] = [2]uint64{a, x}
+	}
+	lastCoefficients.Store(c)
+	return &c.ab
+}
+
+type seededCoefficients struct {
+	seed uint64
+	ab   [MinHashes][2]uint64
+}
+
+var lastCoefficients atomic.Pointer[seededCoefficients]
 
 // EstimateJaccard is the share of places where the signatures of rows i
 // and j agree (sig holds MinHashes values a row).

@@ -76,7 +76,7 @@ mixing two analyses.`,
 func analysisKey(o pickOptions) string {
 	r := o.Read
 	return strings.Join([]string{
-		"schema-of-terms=1",
+		"schema-of-terms=2", // 2: MinHash by multiply-add-shift
 		"lang=" + string(o.Lang),
 		"min-length=" + strconv.Itoa(o.MinLen),
 		"keep-numbers=" + strconv.FormatBool(o.Numbers),
