@@ -1,11 +1,14 @@
 package main
 
 import (
+	"cmp"
 	"context"
 	"fmt"
 	"io/fs"
+	"math"
 	"os"
 	"runtime"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -141,18 +144,57 @@ func loadStore(ctx context.Context, path string, opts pickOptions) (*analysis, e
 	}
 	defer st.Close()
 	col := &collector{an: &analysis{}, opts: opts}
-	snap, err := st.Load(ctx, func(d store.Doc) error {
-		col.add(d.Document, analysed{counts: d.Terms, forms: d.Forms, lang: textproc.Language(d.Lang), sig: d.Sig})
+	// Terms come as the store's word ids: each is given a builder ID the
+	// first time it is seen, and the form counts are summed by id pair and
+	// named once at the end, so no string map is built per document.
+	vocab := col.b.Vocabulary()
+	var (
+		idOf       []int32 // store word id -> builder ID, or -1
+		row        []idCount
+		cols, cnts []int32
+		forms      = map[[2]int32]int{}
+		words      []string
+	)
+	snap, err := st.LoadCounted(ctx, func(d store.Doc, c *store.Counted) error {
+		words = c.Words
+		for len(idOf) < len(c.Words) {
+			idOf = append(idOf, -1)
+		}
+		row = row[:0]
+		for _, t := range c.Terms {
+			id := idOf[t.Word]
+			if id < 0 {
+				id = vocab.ID(c.Words[t.Word])
+				idOf[t.Word] = id
+			}
+			row = append(row, idCount{id, int32(min(t.N, math.MaxInt32))})
+		}
+		slices.SortFunc(row, func(x, y idCount) int { return cmp.Compare(x.id, y.id) })
+		cols, cnts = cols[:0], cnts[:0]
+		for _, e := range row {
+			cols, cnts = append(cols, e.id), append(cnts, e.n)
+		}
+		col.b.AddRowIDs(cols, cnts)
+		for _, f := range c.Forms {
+			forms[[2]int32{f.Term, f.Form}] += f.N
+		}
+		col.record(d.Document, textproc.Language(d.Lang), d.Sig)
 		return nil
 	})
 	if err != nil {
 		return nil, err
+	}
+	for k, n := range forms { // sums: the order does not matter
+		col.an.display.AddN(words[k[0]], words[k[1]], n)
 	}
 	if want := analysisKey(opts); snap.Options != want {
 		return nil, fmt.Errorf("%s was built with other analysis options:\n  store:   %s\n  command: %s\n(pass the store's options, or run assay index with --rebuild)", path, snap.Options, want)
 	}
 	return col.finish(snap.Skips, snap.Fingerprint)
 }
+
+// idCount is a builder term ID and its count in one document.
+type idCount struct{ id, n int32 }
 
 // isStore reports whether a pick or export argument names a file (a
 // store) rather than a folder.

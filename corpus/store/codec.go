@@ -87,6 +87,18 @@ func uvarint(b []byte, at *int) (uint64, bool) {
 // decodeTerms calls fn with each (term, count) of a terms BLOB; word
 // gives the word of an id.
 func decodeTerms(b []byte, word func(id int64) (string, bool), fn func(term string, n int)) error {
+	var w string
+	return decodeTermIDs(b, func(id int64) bool {
+		var ok bool
+		w, ok = word(id)
+		return ok
+	}, func(_ int64, n int) { fn(w, n) })
+}
+
+// decodeTermIDs calls fn with each (word id, count) of a terms BLOB, in
+// increasing id order; valid says whether an id names a word (it is
+// called just before fn with the same id).
+func decodeTermIDs(b []byte, valid func(id int64) bool, fn func(id int64, n int)) error {
 	at, id := 0, int64(0)
 	for at < len(b) {
 		start := at
@@ -96,17 +108,26 @@ func decodeTerms(b []byte, word func(id int64) (string, bool), fn func(term stri
 			return errBlob("terms", start)
 		}
 		id += int64(d)
-		w, ok := word(id)
-		if !ok {
+		if !valid(id) {
 			return errBlob("terms", start)
 		}
-		fn(w, int(n))
+		fn(id, int(n))
 	}
 	return nil
 }
 
 // decodeForms calls fn with each (term, form, count) of a forms BLOB.
 func decodeForms(b []byte, word func(id int64) (string, bool), fn func(term, form string, n int)) error {
+	return decodeFormIDs(b, func(id int64) bool { _, ok := word(id); return ok }, func(t, f int64, n int) {
+		tw, _ := word(t)
+		fw, _ := word(f)
+		fn(tw, fw, n)
+	})
+}
+
+// decodeFormIDs calls fn with each (term id, form id, count) of a forms
+// BLOB; valid says whether an id names a word.
+func decodeFormIDs(b []byte, valid func(id int64) bool, fn func(term, form int64, n int)) error {
 	at, term := 0, int64(0)
 	for at < len(b) {
 		start := at
@@ -126,12 +147,10 @@ func decodeForms(b []byte, word func(id int64) (string, bool), fn func(term, for
 			return errBlob("forms", start)
 		}
 		term += int64(d)
-		t, okT := word(term)
-		f, okF := word(term + off)
-		if !okT || !okF {
+		if !valid(term) || !valid(term+off) {
 			return errBlob("forms", start)
 		}
-		fn(t, f, int(n))
+		fn(term, term+off, int(n))
 	}
 	return nil
 }
@@ -149,6 +168,11 @@ func (w *wordTable) set(id int64, s string) {
 		w.used = append(w.used, false)
 	}
 	w.words[id], w.used[id] = s, true
+}
+
+// valid reports whether id names a word.
+func (w *wordTable) valid(id int64) bool {
+	return id >= 1 && id < int64(len(w.words)) && w.used[id]
 }
 
 // get returns the word of id, if there is one.

@@ -44,12 +44,52 @@ type Snapshot struct {
 // corpus.ErrStop stops it quietly. A document's Terms and Forms maps are
 // its own: fn may keep them.
 func (s *Store) Load(ctx context.Context, fn func(Doc) error) (*Snapshot, error) {
+	return s.load(ctx, fn, nil)
+}
+
+// Counted is a document's analysis as numbers: the ids of its words in
+// the store's word list, which Words holds (Words[id]; ids start at 1).
+// It is what [Store.LoadCounted] hands over, so that a caller that counts
+// terms by number builds no string map a document.
+type Counted struct {
+	// Terms are the document's terms with their counts, in increasing
+	// word id order.
+	Terms []WordCount
+	// Forms are its (term, surface form) pairs with their counts.
+	Forms []FormCount
+	// Words is the store's word list, the same for every document of a
+	// load; read-only.
+	Words []string
+}
+
+// WordCount is a word id and a count.
+type WordCount struct {
+	Word int32
+	N    int
+}
+
+// FormCount is the word ids of a term and of one of its surface forms,
+// and how often the form was seen.
+type FormCount struct {
+	Term, Form int32
+	N          int
+}
+
+// LoadCounted is [Store.Load] with each document's analysis given as
+// numbers (the Doc's Terms and Forms are nil). The Counted and its slices
+// are reused from one document to the next: fn must not keep them.
+func (s *Store) LoadCounted(ctx context.Context, fn func(Doc, *Counted) error) (*Snapshot, error) {
+	return s.load(ctx, nil, fn)
+}
+
+// load runs Load (fn) or LoadCounted (counted).
+func (s *Store) load(ctx context.Context, fn func(Doc) error, counted func(Doc, *Counted) error) (*Snapshot, error) {
 	tx, err := s.db.BeginTx(ctx, &sql.TxOptions{ReadOnly: true}) // BEGIN (deferred)
 	if err != nil {
 		return nil, fmt.Errorf("load %s: %w", s.path, classify(err))
 	}
 	defer tx.Rollback()
-	snap, err := load(ctx, tx, fn)
+	snap, err := load(ctx, tx, fn, counted)
 	if err != nil {
 		return nil, fmt.Errorf("load %s: %w", s.path, err)
 	}
@@ -59,7 +99,7 @@ func (s *Store) Load(ctx context.Context, fn func(Doc) error) (*Snapshot, error)
 	return snap, nil
 }
 
-func load(ctx context.Context, tx *sql.Tx, fn func(Doc) error) (*Snapshot, error) {
+func load(ctx context.Context, tx *sql.Tx, fn func(Doc) error, counted func(Doc, *Counted) error) (*Snapshot, error) {
 	// The first read starts the transaction's snapshot; every later read
 	// of this function sees the same state.
 	meta, err := readMeta(ctx, tx)
@@ -88,6 +128,7 @@ func load(ctx context.Context, tx *sql.Tx, fn func(Doc) error) (*Snapshot, error
 	}
 	defer rows.Close()
 	var fp corpus.Fingerprint
+	c := &Counted{Words: words.words}
 	for rows.Next() {
 		var (
 			d                                    Doc
@@ -113,20 +154,36 @@ func load(ctx context.Context, tx *sql.Tx, fn func(Doc) error) (*Snapshot, error
 		copy(d.Hash[:], h)
 		d.Container, d.Text = container.String, text.String
 		d.Meta = corpus.Meta{From: from.String, To: to.String, Cc: cc.String, Date: date.String, MessageID: messageID.String}
-		d.Terms = make(map[string]int, len(terms)/2)
-		if err := decodeTerms(terms, words.get, func(t string, n int) { d.Terms[t] = n }); err != nil {
-			return nil, fmt.Errorf("%w: document %s: %w", ErrDamaged, d.ID, err)
-		}
-		d.Forms = make(map[[2]string]int, len(forms)/3)
-		if err := decodeForms(forms, words.get, func(t, f string, n int) { d.Forms[[2]string{t, f}] = n }); err != nil {
-			return nil, fmt.Errorf("%w: document %s: %w", ErrDamaged, d.ID, err)
+		if counted != nil {
+			c.Terms, c.Forms = c.Terms[:0], c.Forms[:0]
+			if err := decodeTermIDs(terms, words.valid, func(id int64, n int) { c.Terms = append(c.Terms, WordCount{int32(id), n}) }); err != nil {
+				return nil, fmt.Errorf("%w: document %s: %w", ErrDamaged, d.ID, err)
+			}
+			if err := decodeFormIDs(forms, words.valid, func(t, f int64, n int) { c.Forms = append(c.Forms, FormCount{int32(t), int32(f), n}) }); err != nil {
+				return nil, fmt.Errorf("%w: document %s: %w", ErrDamaged, d.ID, err)
+			}
+		} else {
+			d.Terms = make(map[string]int, len(terms)/2)
+			if err := decodeTerms(terms, words.get, func(t string, n int) { d.Terms[t] = n }); err != nil {
+				return nil, fmt.Errorf("%w: document %s: %w", ErrDamaged, d.ID, err)
+			}
+			d.Forms = make(map[[2]string]int, len(forms)/3)
+			if err := decodeForms(forms, words.get, func(t, f string, n int) { d.Forms[[2]string{t, f}] = n }); err != nil {
+				return nil, fmt.Errorf("%w: document %s: %w", ErrDamaged, d.ID, err)
+			}
 		}
 		if d.Sig, err = decodeSig(sig); err != nil {
 			return nil, fmt.Errorf("%w: document %s: %w", ErrDamaged, d.ID, err)
 		}
 		fp.Add(&d.Document)
 		snap.Documents++
-		if err := fn(d); err != nil {
+		var err error
+		if counted != nil {
+			err = counted(d, c)
+		} else {
+			err = fn(d)
+		}
+		if err != nil {
 			if errors.Is(err, corpus.ErrStop) {
 				break
 			}

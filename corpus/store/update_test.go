@@ -441,3 +441,58 @@ func TestBadCount(t *testing.T) {
 		t.Errorf("err %v", err)
 	}
 }
+
+// LoadCounted gives every document of Load, in the same order, with the
+// same fields, its terms and forms as word ids that name Load's strings
+// with the same counts, terms in increasing id order; and the same
+// snapshot (a property of the two views of one store; no outside source).
+func TestLoadCountedMatchesLoad(t *testing.T) {
+	s, _ := openStore(t)
+	update(t, s, os.DirFS(fixture), UpdateOptions{Key: testKey, Jobs: 2}, analyzerWorker(textproc.Options{}))
+	var want []Doc
+	snapA, err := s.Load(context.Background(), func(d Doc) error { want = append(want, d); return nil })
+	if err != nil {
+		t.Fatal(err)
+	}
+	i := 0
+	snapB, err := s.LoadCounted(context.Background(), func(d Doc, c *Counted) error {
+		if i >= len(want) {
+			t.Fatalf("LoadCounted gives more than Load's %d documents", len(want))
+		}
+		w := want[i]
+		i++
+		if d.Terms != nil || d.Forms != nil {
+			t.Errorf("%s: LoadCounted filled the maps", d.ID)
+		}
+		if d.ID != w.ID || d.File != w.File || d.Title != w.Title || d.Hash != w.Hash || d.Lang != w.Lang || !slices.Equal(d.Sig, w.Sig) {
+			t.Errorf("%s: fields differ from Load's %s", d.ID, w.ID)
+		}
+		terms := map[string]int{}
+		for k, tc := range c.Terms {
+			if k > 0 && tc.Word <= c.Terms[k-1].Word {
+				t.Errorf("%s: term ids not increasing", d.ID)
+			}
+			terms[c.Words[tc.Word]] = tc.N
+		}
+		if fmt.Sprint(terms) != fmt.Sprint(w.Terms) {
+			t.Errorf("%s: terms %v, want %v", d.ID, terms, w.Terms)
+		}
+		forms := map[[2]string]int{}
+		for _, fc := range c.Forms {
+			forms[[2]string{c.Words[fc.Term], c.Words[fc.Form]}] = fc.N
+		}
+		if fmt.Sprint(forms) != fmt.Sprint(w.Forms) {
+			t.Errorf("%s: forms %v, want %v", d.ID, forms, w.Forms)
+		}
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if i != len(want) || len(want) == 0 {
+		t.Errorf("LoadCounted gave %d documents, Load %d", i, len(want))
+	}
+	if fmt.Sprint(snapA) != fmt.Sprint(snapB) {
+		t.Errorf("snapshots differ:\n%+v\n%+v", snapA, snapB)
+	}
+}
