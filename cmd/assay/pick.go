@@ -348,6 +348,11 @@ func runPick(ctx context.Context, app *App, fsys fs.FS, opts pickOptions) error 
 
 // runPickStore picks from an index made by assay index.
 func runPickStore(ctx context.Context, app *App, path string, opts pickOptions) error {
+	stop, err := startProfiles(opts.CPUProfile, opts.MemProfile)
+	if err != nil {
+		return err
+	}
+	defer stop()
 	start := time.Now()
 	an, err := loadStore(ctx, path, opts)
 	if err != nil {

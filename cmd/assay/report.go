@@ -221,8 +221,14 @@ type jointFig struct {
 
 // timingsOut holds wall-clock seconds of each stage, with --timings only.
 type timingsOut struct {
-	Read    num `json:"read"`
-	SVD     num `json:"svd"`
+	Read num `json:"read"`
+	SVD  num `json:"svd"`
+	// NearCopies is the near-copy search after the reading (candidates,
+	// cosines, the merged matrix and its SVD); the signatures are made
+	// while reading, inside Read.
+	NearCopies num `json:"near_copies"`
+	// Curve is the run of curve_max picks behind the capture curve.
+	Curve   num `json:"curve"`
 	Select  num `json:"select"`
 	Measure num `json:"measure"`
 	// RandomizedSVD is one randomized SVD of rank k (q power iterations),
@@ -311,6 +317,7 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 	// row carrying the cluster's share of the corpus, and no two picks may
 	// be closer than the threshold. The figures, groups and coverage are
 	// computed on the matrix with every document (a), so they stay honest.
+	tNear := time.Now()
 	nd := nearDupsOf(a, an, func(row int) int { return an.counts.Rows[survivor(row)] }, opts)
 	selSVD := svd
 	if nd.sel != a {
@@ -320,6 +327,7 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 		}
 		rep.Warnings = append(rep.Warnings, fmt.Sprintf("%d near-copies merged into %d clusters before picking (cosine ≥ %g)", nd.copies, len(nd.clusters), opts.NearDup))
 	}
+	nearTime := time.Since(tNear)
 	selOpts := selection.Options{
 		Method: selection.Method(opts.Method), Rows: docs, Cols: terms, Rank: min(k, len(selSVD.Values)), Seed: opts.Seed,
 		Core: selection.Core(opts.Core), SVD: selSVD, PowerIters: 1, MaxCosine: opts.NearDup,
@@ -359,6 +367,7 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 	// The curve: the first t of curveMax picks, for t = 1 … curveMax, with
 	// the same singular triplets as the main run (so for greedy the main
 	// run's picks are the first docs of these).
+	tCurve := time.Now()
 	curveOpts := selOpts
 	curveOpts.Rows, curveOpts.Cols = curveMax, 1
 	curveCur, err := nd.pick(a, curveOpts)
@@ -367,6 +376,7 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 	}
 	curve := selection.PrefixShares(a, curveCur)
 	curveCur = nil
+	curveTime := time.Since(tCurve)
 
 	tSelect := time.Now()
 	// Hand Select the only reference to the singular vectors: it drops it
@@ -383,7 +393,7 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 	tMeasure := time.Now()
 	q := selection.Measure(a, cur, svd, k)
 	if opts.Timings {
-		rep.Timings = &timingsOut{SVD: seconds(svdTime), Select: seconds(selectTime), Measure: seconds(time.Since(tMeasure))}
+		rep.Timings = &timingsOut{SVD: seconds(svdTime), NearCopies: seconds(nearTime), Curve: seconds(curveTime), Select: seconds(selectTime), Measure: seconds(time.Since(tMeasure))}
 		tRand := time.Now()
 		if _, err := sparsemat.TruncatedSVD(a, sparsemat.SVDOptions{Rank: k, PowerIters: opts.Power, Seed: opts.Seed, Randomized: true}); err == nil {
 			rep.Timings.RandomizedSVD = seconds(time.Since(tRand))
