@@ -45,11 +45,17 @@ are kept as separate rows.`,
 				return usagef("export needs --out PREFIX")
 			}
 			f.format, f.method, f.core, f.docs, f.terms, f.power = defaultFormat, defaultMethod, defaultCore, defaultDocs, defaultTerms, sparsemat.DefaultPowerIters
-			f.groupBy, f.missed, f.nearDup = defaultGroupBy, defaultMissed, defaultNearDup
+			f.groupBy, f.missed = defaultGroupBy, defaultMissed
+			f.nearDup = "off" // the export has no use for the signatures
 			opts, err := f.options(args[0])
 			if err != nil {
 				return err
 			}
+			stop, err := startProfiles(opts.CPUProfile, opts.MemProfile)
+			if err != nil {
+				return err
+			}
+			defer stop()
 			var an *analysis
 			if isStore(args[0]) {
 				an, err = loadStore(cmd.Context(), args[0], opts)

@@ -97,6 +97,11 @@ func defaultJobs() int { return runtime.GOMAXPROCS(0) }
 
 // runIndex builds or updates the store at path from fsys.
 func runIndex(ctx context.Context, app *App, fsys fs.FS, opts pickOptions, path string, keepText, rebuild bool) error {
+	stop, err := startProfiles(opts.CPUProfile, opts.MemProfile)
+	if err != nil {
+		return err
+	}
+	defer stop()
 	st, err := store.Open(path)
 	if err != nil {
 		return err

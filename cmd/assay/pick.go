@@ -142,10 +142,6 @@ func (f *pickFlags) registerSelection(fl *pflag.FlagSet) {
 	fl.IntVar(&f.missed, "missed", defaultMissed, "how many least-covered documents to list")
 	fl.StringVar(&f.nearDup, "near-dup", defaultNearDup, "cosine at which documents count as near-copies, merged before picking so that no two picks are that close; off to disable")
 	fl.IntVar(&f.curveMax, "curve-max", 0, "longest prefix of the how-many-to-read curve (default 3 × --docs)")
-	fl.StringVar(&f.cpuProfile, "cpuprofile", "", "write a CPU profile of the run to this file")
-	fl.StringVar(&f.memProfile, "memprofile", "", "write a heap profile at the end of the run to this file")
-	fl.MarkHidden("cpuprofile")
-	fl.MarkHidden("memprofile")
 }
 
 // registerAnalysis registers the flags that decide how files become the
@@ -169,6 +165,10 @@ func (f *pickFlags) registerAnalysis(fl *pflag.FlagSet) {
 	fl.BoolVar(&f.noStem, "no-stem", false, "do not stem: every word is its own term")
 	fl.IntVar(&f.jobs, "jobs", defaultJobs(), "goroutines that read and analyse documents (the output does not depend on it)")
 	fl.StringVar(&f.lang, "lang", "auto", "language of the documents: auto (detected per document), english, french, spanish, russian, swedish, norwegian, hungarian, or und (none: no stemming)")
+	fl.StringVar(&f.cpuProfile, "cpuprofile", "", "write a CPU profile of the run to this file")
+	fl.StringVar(&f.memProfile, "memprofile", "", "write a heap profile at the end of the run to this file")
+	fl.MarkHidden("cpuprofile")
+	fl.MarkHidden("memprofile")
 }
 
 // options validates the flags; any error is a usage error.
