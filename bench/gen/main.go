@@ -19,27 +19,40 @@
 //     gives its bare form with probability 0.55, otherwise one of its
 //     variants, uniformly. With the variants the vocabulary holds about
 //     110,000 surface forms.
+//
 //   - Frequencies: lemma ranks follow a Zipf law, P(rank r) ∝ 1/r, over the
 //     whole vocabulary ("background" words).
+//
 //   - Topics: -topics (200) lists of 400 lemmas each, drawn uniformly from
 //     ranks 200 and above; each document takes one to three topics, and a
 //     quarter of its words come from them (Zipf, P(r) ∝ 1/r, within a
 //     list). This gives the matrix the low-rank structure that picking
 //     exemplars looks for.
+//
 //   - Word mix: 40% function words (Zipf, P(r) ∝ 1/r^0.9, over the list
 //     below), 25% topic words, 1.5% numbers (one to four digits), 0.3%
 //     fresh words made up on the spot (names and typos: the long tail of a
 //     real vocabulary), the rest background words.
+//
 //   - Document length in words: log-normal, exp(μ + σ·Z) with μ = ln 250
 //     and σ = 0.9 (median 250 words, mean about 375), cut to [20, 20000].
+//
 //   - Layout: a title line of three to eight capitalised topic words, a
 //     blank line, then paragraphs of three to seven sentences of 6 to 25
 //     words; the first word of a sentence is capitalised, 8% of the other
 //     words are followed by a comma, a sentence ends with a full stop.
 //     Lines are not wrapped: one paragraph, one line.
+//
 //   - Files: DIR/<folder>/<doc>.txt with -per (1,000) files a folder, the
 //     folder and file numbers zero-padded: 000/000000.txt, 000/000001.txt,
 //     …, 001/001000.txt.
+//
+//   - Near-copies (-near F, default 0): each document after the first is,
+//     with probability F, a near-copy of one of the 1,000 before it (the
+//     text that document has without -near, each word replaced by a
+//     background word with probability 0.03, one line added at the end),
+//     for benchmarking the near-copy search. With F = 0 the corpus is
+//     what it always was.
 //
 // # Determinism
 //
@@ -118,8 +131,9 @@ type model struct {
 	stopCDF   []float64 // over functionWords
 	seed      uint64
 	perFolder int
-	nameWidth int // digits of a file number
-	dirWidth  int // digits of a folder number
+	nameWidth int     // digits of a file number
+	dirWidth  int     // digits of a folder number
+	near      float64 // -near
 }
 
 // zipfCDF returns the cumulative distribution of P(r) ∝ 1/r^s, r = 1 … n.
@@ -328,6 +342,44 @@ func (m *model) document(i int, b []byte) []byte {
 	return b
 }
 
+// nearCopyOf returns, when document i is to be a near-copy (-near), the
+// earlier document it copies; else -1. The choice comes from a stream of
+// its own, so -near 0 gives the corpus it always gave.
+func (m *model) nearCopyOf(i int) int {
+	if m.near <= 0 || i == 0 {
+		return -1
+	}
+	rng := rand.New(rand.NewPCG(m.seed^0x6e656172, uint64(i)))
+	if rng.Float64() >= m.near {
+		return -1
+	}
+	return max(0, i-1000) + rng.IntN(min(i, 1000))
+}
+
+// nearCopy writes into b document j's text with small edits, for
+// document i: each word is replaced by a background word with
+// probability 0.03, and one line is added at the end.
+func (m *model) nearCopy(i, j int, b []byte) []byte {
+	src := m.document(j, nil)
+	rng := rand.New(rand.NewPCG(m.seed^0x65646974, uint64(i)))
+	start := 0
+	for k := 0; k <= len(src); k++ {
+		if k < len(src) && src[k] != ' ' && src[k] != '\n' {
+			continue
+		}
+		if k > start && rng.Float64() < 0.03 {
+			b = append(b, m.form(rng, draw(rng, m.bgCDF))...)
+		} else {
+			b = append(b, src[start:k]...)
+		}
+		if k < len(src) {
+			b = append(b, src[k])
+		}
+		start = k + 1
+	}
+	return fmt.Appendf(b, "\nCopy %d of note %d.\n", i, j)
+}
+
 // path returns the slash-free relative path of document i.
 func (m *model) path(i int) string {
 	return filepath.Join(fmt.Sprintf("%0*d", m.dirWidth, i/m.perFolder), fmt.Sprintf("%0*d.txt", m.nameWidth, i))
@@ -348,14 +400,16 @@ func main() {
 	per := flag.Int("per", 1000, "files per folder")
 	vocab := flag.Int("vocab", 50000, "lemmas in the vocabulary")
 	topics := flag.Int("topics", 200, "topics")
+	near := flag.Float64("near", 0, "share of documents that are near-copies of one of the 1,000 documents before them (3% of the words replaced, one line added)")
 	flag.Parse()
-	if *out == "" || *n < 1 || *per < 1 || *vocab < topicMinRank+topicSize || *topics < 1 {
-		fmt.Fprintln(os.Stderr, "usage: gen -n N -out DIR [-seed S] [-per 1000] [-vocab 50000] [-topics 200]")
+	if *out == "" || *n < 1 || *per < 1 || *vocab < topicMinRank+topicSize || *topics < 1 || *near < 0 || *near >= 1 {
+		fmt.Fprintln(os.Stderr, "usage: gen -n N -out DIR [-seed S] [-per 1000] [-vocab 50000] [-topics 200] [-near 0]")
 		os.Exit(2)
 	}
 	start := time.Now()
 	m := newModel(*vocab, *topics, *seed)
 	m.perFolder = *per
+	m.near = *near
 	m.nameWidth = max(6, digits(*n-1))
 	m.dirWidth = max(3, digits((*n-1) / *per))
 	for f := 0; f <= (*n-1) / *per; f++ {
@@ -376,7 +430,11 @@ func main() {
 				if i >= *n {
 					return
 				}
-				buf = m.document(i, buf[:0])
+				if j := m.nearCopyOf(i); j >= 0 {
+					buf = m.nearCopy(i, j, buf[:0])
+				} else {
+					buf = m.document(i, buf[:0])
+				}
 				bytes.Add(int64(len(buf)))
 				if err := writeFile(filepath.Join(*out, m.path(i)), buf); err != nil {
 					errOnce.Do(func() { firstErr = err })
