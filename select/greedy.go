@@ -39,21 +39,24 @@ type greedySide struct {
 	values []float64                          // Σ_l
 	vector func(i int, dst []float64)         // dense candidate i into dst (length dim)
 	apply  func(q *mat.Dense, dst *mat.Dense) // dst = A·q (rows) or Aᵀ·q (columns)
-	// exclude, when set, marks as taken the candidates a pick rules out.
-	exclude func(picked int, taken []bool)
+	// near, when set, says whether a candidate is too close to one of the
+	// candidates picked so far to be picked itself.
+	near func(cand int, picked []Pick) bool
 }
 
 func greedyRows(a *sparse.CSR, svd *sparsemat.SVD, r int, maxCos float64) []Pick {
 	m, n := a.Dims()
 	raw := a.RawMatrix()
-	var exclude func(int, []bool)
+	var near func(int, []Pick) bool
 	if maxCos > 0 {
 		norms := rowNorms(a)
-		exclude = func(picked int, taken []bool) { excludeNear(a, norms, picked, maxCos, taken) }
+		near = func(cand int, picked []Pick) bool {
+			return nearAny(raw.Indptr, raw.Ind, raw.Data, norms, cand, picked, maxCos)
+		}
 	}
 	return greedy(greedySide{
-		exclude: exclude,
-		count:   m, dim: n, sq: sparsemat.RowSqNorms(a),
+		near:  near,
+		count: m, dim: n, sq: sparsemat.RowSqNorms(a),
 		d:     scaledBy(svd.U, svd.Values, 2),
 		basis: svd.V, values: svd.Values,
 		vector: func(i int, dst []float64) {
@@ -141,36 +144,49 @@ func greedy(s greedySide, k int, total float64) []Pick {
 	blocks := (s.count + candidateBlock - 1) / candidateBlock
 	blockBest := make([]int, blocks)
 	blockGain := make([]float64, blocks)
+	// scan returns the best candidate of block b and its gain (-1 if none).
+	scan := func(b int) (int, float64) {
+		best, bestGain := -1, 0.0
+		for i := b * candidateBlock; i < min((b+1)*candidateBlock, s.count); i++ {
+			// A candidate already in the span (to rounding) adds nothing.
+			if taken[i] || resid[i] <= 1e-12*s.sq[i] || resid[i] <= 0 {
+				continue
+			}
+			di := d.RawRowView(i)
+			if g := floats.Dot(di, di) / resid[i]; g > bestGain {
+				best, bestGain = i, g
+			}
+		}
+		return best, bestGain
+	}
 	for step := range k {
 		// The best candidate of each fixed block, then the first best
 		// block: the same choice for any number of goroutines.
-		forBlocks(blocks, func(b int) {
-			best, bestGain := -1, 0.0
-			for i := b * candidateBlock; i < min((b+1)*candidateBlock, s.count); i++ {
-				// A candidate already in the span (to rounding) adds nothing.
-				if taken[i] || resid[i] <= 1e-12*s.sq[i] || resid[i] <= 0 {
-					continue
-				}
-				di := d.RawRowView(i)
-				if g := floats.Dot(di, di) / resid[i]; g > bestGain {
-					best, bestGain = i, g
-				}
-			}
-			blockBest[b], blockGain[b] = best, bestGain
-		})
+		forBlocks(blocks, func(b int) { blockBest[b], blockGain[b] = scan(b) })
 		best, bestGain := -1, 0.0
-		for b := range blocks {
-			if blockBest[b] >= 0 && blockGain[b] > bestGain {
-				best, bestGain = blockBest[b], blockGain[b]
+		for {
+			best, bestGain = -1, 0.0
+			for b := range blocks {
+				if blockBest[b] >= 0 && blockGain[b] > bestGain {
+					best, bestGain = blockBest[b], blockGain[b]
+				}
 			}
+			if best < 0 || s.near == nil || !s.near(best, picks) {
+				break
+			}
+			// Too close to a pick: ruled out for good, and its block's
+			// best found again. Checking only the winner costs a few
+			// sparse dot products a step, where ruling out every close
+			// candidate at each pick would cost a pass over the matrix;
+			// the picks are the same.
+			taken[best] = true
+			b := best / candidateBlock
+			blockBest[b], blockGain[b] = scan(b)
 		}
 		if best < 0 {
 			break
 		}
 		taken[best] = true
-		if s.exclude != nil {
-			s.exclude(best, taken)
-		}
 		// New basis vector: the residual of the candidate, orthogonalised
 		// twice against the basis (classical Gram–Schmidt, repeated for
 		// stability).

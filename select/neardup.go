@@ -301,32 +301,23 @@ func splitmix(x uint64) uint64 {
 	return x ^ (x >> 31)
 }
 
-// excludeNear marks, for a newly picked row, every row whose cosine with
-// it is at least threshold, so that no later pick can be a near-copy of
-// it. It costs one pass over a.
-func excludeNear(a *sparse.CSR, norms []float64, picked int, threshold float64, taken []bool) {
-	raw := a.RawMatrix()
-	_, n := a.Dims()
-	dense := make([]float64, n)
-	for k := raw.Indptr[picked]; k < raw.Indptr[picked+1]; k++ {
-		dense[raw.Ind[k]] = raw.Data[k]
+// nearAny reports whether row cand has cosine at least threshold with the
+// row of one of the picks.
+func nearAny(indptr, ind []int, data []float64, norms []float64, cand int, picks []Pick, threshold float64) bool {
+	nc := norms[cand]
+	if nc == 0 {
+		return false
 	}
-	np := norms[picked]
-	if np == 0 {
-		return
-	}
-	for i := range raw.I {
-		if taken[i] || norms[i] == 0 {
+	for _, p := range picks {
+		np := norms[p.Index]
+		if np == 0 {
 			continue
 		}
-		var s float64
-		for k := raw.Indptr[i]; k < raw.Indptr[i+1]; k++ {
-			s += raw.Data[k] * dense[raw.Ind[k]]
-		}
-		if s/(np*norms[i]) >= threshold {
-			taken[i] = true
+		if rowDot(indptr, ind, data, cand, p.Index)/(np*nc) >= threshold {
+			return true
 		}
 	}
+	return false
 }
 
 // dropNear removes, in pick order, every pick whose row has cosine at
