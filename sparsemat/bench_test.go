@@ -10,7 +10,7 @@ import (
 // BenchmarkMulDense multiplies a sparse matrix by a dense one over the raw
 // CSR arrays, on a grid of sizes.
 func BenchmarkMulDense(b *testing.B) {
-	for _, s := range []struct{ m, n, nnzRow, p int }{{2000, 20000, 100, 50}, {20000, 50000, 100, 20}} {
+	for _, s := range []struct{ m, n, nnzRow, p int }{{2000, 20000, 100, 50}, {20000, 50000, 100, 20}, {20000, 60000, 145, 160}} {
 		b.Run(fmt.Sprintf("docs=%d/terms=%d/nnz=%d/p=%d", s.m, s.n, s.nnzRow, s.p), func(b *testing.B) {
 			a := randomCSR(s.m, s.n, float64(s.nnzRow)/float64(s.n), 1, -1, -1)
 			x := randomDense(s.n, s.p, 2)
