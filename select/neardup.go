@@ -3,7 +3,6 @@ package selection
 import (
 	"math"
 	"slices"
-	"sync/atomic"
 
 	"github.com/james-bowman/sparse"
 )
@@ -12,13 +11,14 @@ import (
 //
 // Documents are compared by their word shingles — runs of consecutive
 // index terms, computed by the caller before pruning — with MinHash
-// (Broder, "On the resemblance and containment of documents", 1997): for
-// each of [MinHashes] hash functions h_k, seeded from the seed, a
-// document's signature holds min over its shingles s of h_k(s). Two
+// (Broder, "On the resemblance and containment of documents", 1997): a
+// document's signature holds [MinHashes] minima of hashes of its shingles,
+// made by one-permutation hashing with densification (see [MinHash]). Two
 // documents agree in one place of their signatures with probability equal
 // to the Jaccard similarity of their shingle sets, so the share of
-// agreeing places estimates it with standard error √(J(1−J)/MinHashes) ≤
-// 1/(2√128) ≈ 0.044.
+// agreeing places estimates it with standard error about √(J(1−J)/128) ≤
+// 1/(2√128) ≈ 0.044 (one-permutation hashing samples the places without
+// replacement, which if anything lowers the variance).
 //
 // Candidate pairs come from locality-sensitive hashing: the signature is
 // cut into [MinHashBands] bands of [MinHashRows] values, and documents
@@ -53,76 +53,68 @@ const (
 // shingles; repeats do not matter) into dst, which must hold MinHashes
 // values. An empty set gives all-ones.
 //
-// Each item is first mixed into a well-spread 64-bit value x (SplitMix64
-// of the item and the seed); the hash functions are then h_k(x) = the top
-// 32 bits of a_k·x + b_k (mod 2⁶⁴), with a_k odd and b_k drawn from the
-// seed: the multiply-add-shift family (Dietzfelbinger, "Universal hashing
-// and k-wise independent random variables via integer arithmetic without
-// primes", STACS 1996), which is universal. That costs one multiply and
-// one add a place, where mixing each place afresh costs two multiplies and
-// three shifts, and the loop over items for one place keeps its minimum in
-// a register.
+// The signature is made by one-permutation hashing (Li, Owen and Zhang,
+// "One permutation hashing", NIPS 2012): each item is hashed once
+// (SplitMix64 of the item and the seed), the top 7 bits of the hash choose
+// one of the 128 places (bins) and the low 32 bits are its value; a place
+// keeps the least value that fell into it. Places no item fell into are
+// filled by optimal densification (Shrivastava, "Optimal densification
+// for fast and accurate minwise hashing", ICML 2017): an empty place k
+// takes the value of the first non-empty place in a pseudo-random sequence
+// of places that depends only on k and the seed, the same for every
+// document. Two signatures then agree in a place with probability equal
+// to the Jaccard similarity of the two sets, as with 128 independent hash
+// functions, at the cost of one hash an item instead of 128.
 func MinHash(dst []uint32, items []uint64, seed uint64) {
 	if len(dst) != MinHashes {
 		panic("selection: MinHash needs a signature of MinHashes values")
 	}
-	var local [512]uint64
-	xs := local[:0]
-	if len(items) > len(local) {
-		xs = make([]uint64, 0, len(items))
+	const empty = uint64(1) << 32 // above every 32-bit value
+	var bins [MinHashes]uint64
+	for k := range bins {
+		bins[k] = empty
 	}
 	for _, it := range items {
-		xs = append(xs, splitmix(it^seed))
+		h := splitmix(it ^ seed)
+		k := h >> (64 - minHashBinBits)
+		bins[k] = min(bins[k], h&0xffffffff)
 	}
-	c := coefficients(seed)
-	// Eight places at a time: each x is loaded once for eight independent
-	// minima.
-	for k := 0; k < MinHashes; k += 8 {
-		ab := c[k : k+8 : k+8]
-		var m [8]uint64
-		for i := range m {
-			m[i] = math.MaxUint64
+	if len(items) == 0 {
+		for k := range dst {
+			dst[k] = math.MaxUint32
 		}
-		for _, x := range xs {
-			m[0] = min(m[0], ab[0][0]*x+ab[0][1])
-			m[1] = min(m[1], ab[1][0]*x+ab[1][1])
-			m[2] = min(m[2], ab[2][0]*x+ab[2][1])
-			m[3] = min(m[3], ab[3][0]*x+ab[3][1])
-			m[4] = min(m[4], ab[4][0]*x+ab[4][1])
-			m[5] = min(m[5], ab[5][0]*x+ab[5][1])
-			m[6] = min(m[6], ab[6][0]*x+ab[6][1])
-			m[7] = min(m[7], ab[7][0]*x+ab[7][1])
+		return
+	}
+	for k, v := range bins {
+		if v == empty {
+			v = densify(&bins, k, seed)
 		}
-		for i, v := range m {
-			dst[k+i] = uint32(v >> 32)
-		}
+		dst[k] = uint32(v)
 	}
 }
 
-// coefficients returns the (a_k, b_k) of MinHash's hash functions for a
-// seed, a_k odd; the last seed's are kept, since a run uses one.
-func coefficients(seed uint64) *[MinHashes][2]uint64 {
-	if c := lastCoefficients.Load(); c != nil && c.seed == seed {
-		return &c.ab
-	}
-	c := &seededCoefficients{seed: seed}
-	x := splitmix(seed ^ 0x6a09e667f3bcc908)
-	for k := range c.ab {
-		x = splitmix(x)
-		a := x | 1
-		x = splitmix(x)
-		c.ab[k] = [2]uint64{a, x}
-	}
-	lastCoefficients.Store(c)
-	return &c.ab
-}
+// minHashBinBits is log2(MinHashes).
+const minHashBinBits = 7
 
-type seededCoefficients struct {
-	seed uint64
-	ab   [MinHashes][2]uint64
+// densify returns the value an empty place k borrows: the first non-empty
+// place of the sequence h(k, 1), h(k, 2), … (a hash of k, the attempt and
+// the seed). At least one place is non-empty, so the sequence ends; after
+// 4096 attempts (a chance of (127/128)^4096 < 2e-14 with one non-empty
+// place) the places after k are scanned in turn, which ends too.
+func densify(bins *[MinHashes]uint64, k int, seed uint64) uint64 {
+	const empty = uint64(1) << 32
+	for t := uint64(1); t <= 4096; t++ {
+		j := splitmix(seed^0x2545f4914f6cdd1d^uint64(k)<<16^t) >> (64 - minHashBinBits)
+		if v := bins[j]; v != empty {
+			return v
+		}
+	}
+	for d := 1; ; d++ {
+		if v := bins[(k+d)%MinHashes]; v != empty {
+			return v
+		}
+	}
 }
-
-var lastCoefficients atomic.Pointer[seededCoefficients]
 
 // EstimateJaccard is the share of places where the signatures of rows i
 // and j agree (sig holds MinHashes values a row).

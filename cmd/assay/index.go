@@ -79,7 +79,7 @@ mixing two analyses.`,
 func analysisKey(o pickOptions) string {
 	r := o.Read
 	return strings.Join([]string{
-		"schema-of-terms=2", // 2: MinHash by multiply-add-shift
+		"schema-of-terms=3", // 3: MinHash by one-permutation hashing
 		"lang=" + string(o.Lang),
 		"min-length=" + strconv.Itoa(o.MinLen),
 		"keep-numbers=" + strconv.FormatBool(o.Numbers),
