@@ -321,9 +321,24 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 	nd := nearDupsOf(a, an, func(row int) int { return an.counts.Rows[survivor(row)] }, opts)
 	selSVD := svd
 	if nd.sel != a {
-		selSVD, err = sparsemat.TruncatedSVD(nd.sel, sparsemat.SVDOptions{Rank: min(svdRank, len(nd.from)), PowerIters: opts.Power, Seed: opts.Seed})
+		// The picking uses at most ReferenceRank(k, docs, terms) triplets
+		// of a randomized SVD (ProxyRank below; the other methods use k),
+		// so a merged matrix too large for the exact SVD gets only those:
+		// the triplets for the curve are on the full matrix's SVD, which
+		// the figures use. An exact SVD is used whole, so it keeps the
+		// full rank.
+		selRank := min(svdRank, len(nd.from))
+		if min(len(nd.from), n) > sparsemat.ExactLimit && opts.TargetShare == 0 {
+			selRank = min(selRank, selection.ReferenceRank(k, docs, terms))
+		}
+		selSVD, err = sparsemat.TruncatedSVD(nd.sel, sparsemat.SVDOptions{Rank: selRank, PowerIters: opts.Power, Seed: opts.Seed})
 		if err != nil {
 			return nil, fmt.Errorf("SVD of the merged matrix: %w", err)
+		}
+		if opts.TargetShare == 0 {
+			// Only the full matrix's values are needed from here on
+			// (figures and curve); its vectors can go.
+			svd.U, svd.V = nil, nil
 		}
 		rep.Warnings = append(rep.Warnings, fmt.Sprintf("%d near-copies merged into %d clusters before picking (cosine ≥ %g)", nd.copies, len(nd.clusters), opts.NearDup))
 	}
