@@ -20,8 +20,8 @@
 // and not the memos and the matrix. Set INGESTPIPE_PHASES=1 to print the
 // resident memory after each step. -minhash adds the MinHash signature of each
 // document's word shingles, as analyze.go computes it for the near-copy
-// search (copied here: FNV-1a of each term, shingles of 3,
-// selection.MinHash).
+// search (selection.TermHash of each term, selection.Shingles,
+// selection.MinHash with the command's seed).
 //
 // It prints, per run, the time and MB/s of raw input (the sum of the sizes
 // of the documents read), and then the medians, the peak resident memory
@@ -52,6 +52,9 @@ import (
 	"assay/sparsemat"
 	"assay/textproc"
 )
+
+// ingestMinHashSeed is the command's MinHash seed (cmd/assay, minHashSeed).
+const ingestMinHashSeed = 0x5a55a1
 
 // freeOS is the -free flag.
 var freeOS bool
@@ -158,12 +161,12 @@ func ingestMaps(fsys fs.FS, opts textproc.Options, jobs int, minhash bool) (*res
 				r.counts[term]++
 				r.forms[[2]string{term, surface}]++
 				if minhash {
-					seq = append(seq, fnv64(term))
+					seq = append(seq, selection.TermHash(term))
 				}
 			})
 			if minhash {
 				r.sig = make([]uint32, selection.MinHashes)
-				selection.MinHash(r.sig, shingles(seq), 0x5a55a1)
+				selection.MinHash(r.sig, selection.Shingles(seq), ingestMinHashSeed)
 			}
 			return r
 		}
@@ -219,12 +222,12 @@ func ingestIDs(fsys fs.FS, opts textproc.Options, jobs int, minhash bool) (*resu
 						termHash = append(termHash, 0)
 					}
 					if termHash[id] == 0 {
-						termHash[id] = fnv64(b.Vocabulary().Term(id))
+						termHash[id] = selection.TermHash(b.Vocabulary().Term(id))
 					}
 					seq = append(seq, termHash[id])
 				}
 				r.sig = make([]uint32, selection.MinHashes)
-				selection.MinHash(r.sig, shingles(seq), 0x5a55a1)
+				selection.MinHash(r.sig, selection.Shingles(seq), ingestMinHashSeed)
 			}
 			return r
 		}
@@ -265,31 +268,6 @@ func phase(name string) {
 	var ms runtime.MemStats
 	runtime.ReadMemStats(&ms)
 	fmt.Printf("  %s: resident %d MiB (peak %d MiB), heap in use %d MiB, live after last GC %d MiB\n", name, rssKB("VmRSS")/1024, rssKB("VmHWM")/1024, ms.HeapInuse>>20, ms.HeapAlloc>>20)
-}
-
-func fnv64(s string) uint64 {
-	h := uint64(0xcbf29ce484222325)
-	for i := 0; i < len(s); i++ {
-		h ^= uint64(s[i])
-		h *= 0x100000001b3
-	}
-	return h
-}
-
-func shingles(terms []uint64) []uint64 {
-	const n = 3
-	if len(terms) < n {
-		return terms
-	}
-	out := make([]uint64, 0, len(terms)-n+1)
-	for i := 0; i+n <= len(terms); i++ {
-		h := uint64(n)
-		for _, t := range terms[i : i+n] {
-			h = h*0x100000001b3 ^ t
-		}
-		out = append(out, h)
-	}
-	return out
 }
 
 // checksum hashes the matrix, its terms, DF and rows, the display form

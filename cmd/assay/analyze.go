@@ -50,37 +50,6 @@ type analysed struct {
 // counts, so it can be kept in an index and reused by picks with any seed.
 const minHashSeed = 0x5a55a1
 
-// shingleLength is the number of consecutive terms in a word shingle.
-const shingleLength = 3
-
-// shingles returns the hashes of the runs of shingleLength consecutive
-// terms (all the terms, before pruning); a text shorter than that gives
-// its terms one by one. Term hashes are FNV-1a, so they do not depend on
-// the run.
-func shingles(terms []uint64) []uint64 {
-	if len(terms) < shingleLength {
-		return terms
-	}
-	out := make([]uint64, 0, len(terms)-shingleLength+1)
-	for i := 0; i+shingleLength <= len(terms); i++ {
-		h := uint64(shingleLength)
-		for _, t := range terms[i : i+shingleLength] {
-			h = h*0x100000001b3 ^ t
-		}
-		out = append(out, h)
-	}
-	return out
-}
-
-func fnv64(s string) uint64 {
-	h := uint64(0xcbf29ce484222325)
-	for i := 0; i < len(s); i++ {
-		h ^= uint64(s[i])
-		h *= 0x100000001b3
-	}
-	return h
-}
-
 // errNoDocuments is returned when a folder holds nothing readable.
 var errNoDocuments = errors.New("no readable documents")
 
@@ -131,12 +100,12 @@ func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, erro
 						termHash = append(termHash, make([]uint64, int(id)+1-len(termHash)+len(termHash)/2)...)
 					}
 					if termHash[id] == 0 {
-						termHash[id] = fnv64(vocab.Term(id))
+						termHash[id] = selection.TermHash(vocab.Term(id))
 					}
 					seq = append(seq, termHash[id])
 				}
 				r.sig = make([]uint32, selection.MinHashes)
-				selection.MinHash(r.sig, shingles(seq), minHashSeed)
+				selection.MinHash(r.sig, selection.Shingles(seq), minHashSeed)
 			}
 			return r
 		}
@@ -185,10 +154,10 @@ func docWorker(opts pickOptions) func() func(corpus.Document) analysed {
 			r.lang = az.Analyze(d.Text, func(term, surface string) {
 				r.counts[term]++
 				r.forms[[2]string{term, surface}]++
-				seq = append(seq, fnv64(term))
+				seq = append(seq, selection.TermHash(term))
 			})
 			r.sig = make([]uint32, selection.MinHashes)
-			selection.MinHash(r.sig, shingles(seq), minHashSeed)
+			selection.MinHash(r.sig, selection.Shingles(seq), minHashSeed)
 			return r
 		}
 	}

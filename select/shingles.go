@@ -1,0 +1,35 @@
+package selection
+
+// ShingleLength is the number of consecutive terms in a word shingle.
+const ShingleLength = 3
+
+// Shingles returns the hashes of the runs of ShingleLength consecutive
+// terms (given by their TermHash, all the terms of a document before
+// pruning); a text shorter than that gives its terms one by one. These are
+// the items a document's [MinHash] signature is made of.
+func Shingles(terms []uint64) []uint64 {
+	if len(terms) < ShingleLength {
+		return terms
+	}
+	out := make([]uint64, 0, len(terms)-ShingleLength+1)
+	for i := 0; i+ShingleLength <= len(terms); i++ {
+		h := uint64(ShingleLength)
+		for _, t := range terms[i : i+ShingleLength] {
+			h = h*0x100000001b3 ^ t
+		}
+		out = append(out, h)
+	}
+	return out
+}
+
+// TermHash is the 64-bit FNV-1a hash of a term: a hash that depends only
+// on the term, so that signatures made in different runs (and kept in an
+// index) agree.
+func TermHash(s string) uint64 {
+	h := uint64(0xcbf29ce484222325)
+	for i := 0; i < len(s); i++ {
+		h ^= uint64(s[i])
+		h *= 0x100000001b3
+	}
+	return h
+}
