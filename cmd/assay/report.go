@@ -385,6 +385,10 @@ func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 	tCurve := time.Now()
 	curveOpts := selOpts
 	curveOpts.Rows, curveOpts.Cols = curveMax, 1
+	// The curve needs the picked rows only (PrefixShares); no method's
+	// picks depend on the core, so the curve's run gets the cheap one
+	// (the optimal core of curve_max rows is a QR of an n×curve_max matrix).
+	curveOpts.Core, curveOpts.CoreRank = selection.CoreIntersection, 0
 	curveCur, err := nd.pick(a, curveOpts)
 	if err != nil {
 		return nil, fmt.Errorf("curve: %w", err)
