@@ -47,16 +47,17 @@ type greedySide struct {
 func greedyRows(a *sparse.CSR, svd *sparsemat.SVD, r int, maxCos float64) []Pick {
 	m, n := a.Dims()
 	raw := a.RawMatrix()
+	sq := sparsemat.RowSqNorms(a)
 	var near func(int, []Pick) bool
 	if maxCos > 0 {
-		norms := rowNorms(a)
+		norms := sqrtAll(slices.Clone(sq))
 		near = func(cand int, picked []Pick) bool {
 			return nearAny(raw.Indptr, raw.Ind, raw.Data, norms, cand, picked, maxCos)
 		}
 	}
 	return greedy(greedySide{
 		near:  near,
-		count: m, dim: n, sq: sparsemat.RowSqNorms(a),
+		count: m, dim: n, sq: sq,
 		d:     scaledBy(svd.U, svd.Values, 2),
 		basis: svd.V, values: svd.Values,
 		vector: func(i int, dst []float64) {
@@ -163,7 +164,8 @@ func greedy(s greedySide, k int, total float64) []Pick {
 		// The best candidate of each fixed block, then the first best
 		// block: the same choice for any number of goroutines.
 		forBlocks(blocks, func(b int) { blockBest[b], blockGain[b] = scan(b) })
-		best, bestGain := -1, 0.0
+		var best int
+		var bestGain float64
 		for {
 			best, bestGain = -1, 0.0
 			for b := range blocks {

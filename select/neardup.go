@@ -5,6 +5,8 @@ import (
 	"slices"
 
 	"github.com/james-bowman/sparse"
+
+	"assay/sparsemat"
 )
 
 // Near-duplicate detection.
@@ -69,6 +71,12 @@ func MinHash(dst []uint32, items []uint64, seed uint64) {
 	if len(dst) != MinHashes {
 		panic("selection: MinHash needs a signature of MinHashes values")
 	}
+	if len(items) == 0 {
+		for k := range dst {
+			dst[k] = math.MaxUint32
+		}
+		return
+	}
 	const empty = uint64(1) << 32 // above every 32-bit value
 	var bins [MinHashes]uint64
 	for k := range bins {
@@ -78,12 +86,6 @@ func MinHash(dst []uint32, items []uint64, seed uint64) {
 		h := splitmix(it ^ seed)
 		k := h >> (64 - minHashBinBits)
 		bins[k] = min(bins[k], h&0xffffffff)
-	}
-	if len(items) == 0 {
-		for k := range dst {
-			dst[k] = math.MaxUint32
-		}
-		return
 	}
 	for k, v := range bins {
 		if v == empty {
@@ -242,17 +244,15 @@ func MaxPairCosine(a *sparse.CSR, rows []int) (float64, int, int) {
 	return best, bi, bj
 }
 
-func rowNorms(a *sparse.CSR) []float64 {
-	raw := a.RawMatrix()
-	out := make([]float64, raw.I)
-	for i := range out {
-		var s float64
-		for _, v := range raw.Data[raw.Indptr[i]:raw.Indptr[i+1]] {
-			s += v * v
-		}
-		out[i] = math.Sqrt(s)
+// rowNorms returns the Euclidean norm of every row of a.
+func rowNorms(a *sparse.CSR) []float64 { return sqrtAll(sparsemat.RowSqNorms(a)) }
+
+// sqrtAll replaces every value of x by its square root and returns x.
+func sqrtAll(x []float64) []float64 {
+	for i, v := range x {
+		x[i] = math.Sqrt(v)
 	}
-	return out
+	return x
 }
 
 // rowDot is the dot product of rows x and y of a CSR (sorted indices).

@@ -172,16 +172,6 @@ type collector struct {
 	fp   corpus.Fingerprint
 }
 
-// add records one document given by its term and form counts (its Text
-// is not needed).
-func (c *collector) add(d corpus.Document, r analysed) {
-	c.b.AddRow(r.counts)
-	for f, n := range r.forms {
-		c.an.display.AddN(f[0], f[1], n)
-	}
-	c.record(d, r.lang, r.sig)
-}
-
 // record notes what the report needs of document d, whose terms are in
 // the builder already.
 func (c *collector) record(d corpus.Document, lang textproc.Language, sig []uint32) {

@@ -177,7 +177,7 @@ func (w *wordTable) valid(id int64) bool {
 
 // get returns the word of id, if there is one.
 func (w *wordTable) get(id int64) (string, bool) {
-	if id < 1 || id >= int64(len(w.words)) || !w.used[id] {
+	if !w.valid(id) {
 		return "", false
 	}
 	return w.words[id], true
