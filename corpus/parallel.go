@@ -2,7 +2,6 @@ package corpus
 
 import (
 	"errors"
-	"fmt"
 	"io"
 	"io/fs"
 	"path"
@@ -64,31 +63,12 @@ func WalkParallel[R any](fsys fs.FS, opts Options, jobs int, newWorker func() fu
 				return false
 			}
 		}
-		err := fs.WalkDir(fsys, ".", func(p string, d fs.DirEntry, err error) error {
-			if err != nil {
-				if p == "." {
-					return fmt.Errorf("read folder: %w", err)
-				}
-				if !send(task{path: p, skip: &Skip{Path: p, Reason: "unreadable: " + reason(err)}}) {
-					return ErrStop
-				}
-				if d != nil && d.IsDir() {
-					return fs.SkipDir
-				}
-				return nil
+		err := WalkFiles(fsys, opts, func(s Skip) error {
+			if !send(task{path: s.Path, skip: &s}) {
+				return ErrStop
 			}
-			if p == "." {
-				return nil
-			}
-			if strings.HasPrefix(d.Name(), ".") || excluded(p, d.Name(), opts.Exclude) {
-				if d.IsDir() {
-					return fs.SkipDir
-				}
-				return nil
-			}
-			if d.IsDir() || (len(opts.Include) > 0 && !excluded(p, d.Name(), opts.Include)) {
-				return nil
-			}
+			return nil
+		}, func(p string, d fs.DirEntry) error {
 			if !send(task{path: p, d: d}) {
 				return ErrStop
 			}

@@ -100,38 +100,7 @@ func Walk(fsys fs.FS, opts Options, fn func(Document) error) ([]Skip, error) {
 	}
 	var skips []Skip
 	skip := func(p, reason string) { skips = append(skips, Skip{Path: p, Reason: reason}) }
-	err := fs.WalkDir(fsys, ".", func(p string, d fs.DirEntry, err error) error {
-		if err != nil {
-			if p == "." {
-				return fmt.Errorf("read folder: %w", err)
-			}
-			skip(p, "unreadable: "+reason(err))
-			if d != nil && d.IsDir() {
-				return fs.SkipDir
-			}
-			return nil
-		}
-		if p == "." {
-			return nil
-		}
-		if strings.HasPrefix(d.Name(), ".") {
-			if d.IsDir() {
-				return fs.SkipDir
-			}
-			return nil
-		}
-		if excluded(p, d.Name(), opts.Exclude) {
-			if d.IsDir() {
-				return fs.SkipDir
-			}
-			return nil
-		}
-		if d.IsDir() {
-			return nil
-		}
-		if len(opts.Include) > 0 && !excluded(p, d.Name(), opts.Include) {
-			return nil
-		}
+	err := WalkFiles(fsys, opts, func(s Skip) error { skips = append(skips, s); return nil }, func(p string, d fs.DirEntry) error {
 		raw, rd, why := readFile(fsys, p, d, opts)
 		if why != "" {
 			skip(p, why)
@@ -157,6 +126,44 @@ func Walk(fsys fs.FS, opts Options, fn func(Document) error) ([]Skip, error) {
 		err = nil
 	}
 	return skips, err
+}
+
+// WalkFiles walks fsys in lexical order as every reader of a folder does:
+// names starting with "." are left out (folders with all they hold), and
+// so are paths or names matching opts.Exclude; with opts.Include set, only
+// files matching one of its patterns are kept. It calls file for each
+// entry kept that is not a folder, and unreadable with a Skip ("unreadable:
+// …") for each entry that could not be read (a folder among them is not
+// entered). An error from either stops the walk and is returned as it is;
+// a root that cannot be read gives "read folder: …".
+func WalkFiles(fsys fs.FS, opts Options, unreadable func(Skip) error, file func(p string, d fs.DirEntry) error) error {
+	return fs.WalkDir(fsys, ".", func(p string, d fs.DirEntry, err error) error {
+		if err != nil {
+			if p == "." {
+				return fmt.Errorf("read folder: %w", err)
+			}
+			if err := unreadable(Skip{Path: p, Reason: "unreadable: " + reason(err)}); err != nil {
+				return err
+			}
+			if d != nil && d.IsDir() {
+				return fs.SkipDir
+			}
+			return nil
+		}
+		if p == "." {
+			return nil
+		}
+		if strings.HasPrefix(d.Name(), ".") || excluded(p, d.Name(), opts.Exclude) {
+			if d.IsDir() {
+				return fs.SkipDir
+			}
+			return nil
+		}
+		if d.IsDir() || (len(opts.Include) > 0 && !excluded(p, d.Name(), opts.Include)) {
+			return nil
+		}
+		return file(p, d)
+	})
 }
 
 // readFile reads one file whole, bounded by MaxBytes; a non-empty reason

@@ -318,30 +318,6 @@ func mtimeNS(t time.Time) int64 {
 	return t.UnixNano()
 }
 
-// reason gives the innermost message of a path error, without the path, as
-// the corpus package words the reason of an unreadable entry.
-func reason(err error) string {
-	var pe *fs.PathError
-	if errors.As(err, &pe) {
-		return pe.Err.Error()
-	}
-	return err.Error()
-}
-
-// matches reports whether the slash path p or its base name matches one of
-// the path.Match patterns, as the corpus walk's Include and Exclude do.
-func matches(p, name string, patterns []string) bool {
-	for _, pat := range patterns {
-		if ok, _ := path.Match(pat, p); ok {
-			return true
-		}
-		if ok, _ := path.Match(pat, name); ok {
-			return true
-		}
-	}
-	return false
-}
-
 // stat fills in the size, time and mode of a file entry: of the file a
 // symbolic link points to (as the readers see it), with ModeSymlink kept.
 func (u *updater) stat(it *item) {
@@ -462,33 +438,12 @@ func (u *updater) pipeline() error {
 			}
 			return send(it)
 		}
-		err := fs.WalkDir(u.fsys, ".", func(p string, d fs.DirEntry, err error) error {
-			if err != nil {
-				if p == "." {
-					return fmt.Errorf("read folder: %w", err)
-				}
-				it := item{path: p, act: actWalkError, size: -1,
-					skip: corpus.Skip{Path: p, Reason: "unreadable: " + reason(err)}}
-				if !offer(it) {
-					return errStop
-				}
-				if d != nil && d.IsDir() {
-					return fs.SkipDir
-				}
-				return nil
+		err := corpus.WalkFiles(u.fsys, opts, func(s corpus.Skip) error {
+			if !offer(item{path: s.Path, act: actWalkError, size: -1, skip: s}) {
+				return errStop
 			}
-			if p == "." {
-				return nil
-			}
-			if strings.HasPrefix(d.Name(), ".") || matches(p, d.Name(), opts.Exclude) {
-				if d.IsDir() {
-					return fs.SkipDir
-				}
-				return nil
-			}
-			if d.IsDir() || (len(opts.Include) > 0 && !matches(p, d.Name(), opts.Include)) {
-				return nil
-			}
+			return nil
+		}, func(p string, d fs.DirEntry) error {
 			it := item{path: p, entry: d, act: actDecide}
 			u.stat(&it)
 			if !offer(it) {
