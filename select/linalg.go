@@ -33,7 +33,7 @@ func rangeBasis(x *mat.Dense) (q *mat.Dense, s []float64, v *mat.Dense) {
 	var u, vf mat.Dense
 	svd.UTo(&u)
 	svd.VTo(&vf)
-	return mulInPlace(qf, u.Slice(0, c, 0, rank).(*mat.Dense)), sv[:rank], mat.DenseCopyOf(vf.Slice(0, c, 0, rank))
+	return sparsemat.MulInPlace(qf, u.Slice(0, c, 0, rank).(*mat.Dense)), sv[:rank], mat.DenseCopyOf(vf.Slice(0, c, 0, rank))
 }
 
 // wideBasis is rangeBasis for an x with fewer rows than columns, from the
@@ -69,21 +69,6 @@ func NumericalRank(sv []float64, r, c int) int {
 		}
 	}
 	return rank
-}
-
-// mulInPlace overwrites the first k columns of x (r×l) with x·w for an l×k
-// w, one row at a time, and returns them as an r×k view of x's memory, so
-// that no second block as tall as the corpus is needed.
-func mulInPlace(x, w *mat.Dense) *mat.Dense {
-	r, l := x.Dims()
-	_, k := w.Dims()
-	tmp := mat.NewVecDense(k, nil)
-	for i := range r {
-		row := x.RawRowView(i)
-		tmp.MulVec(w.T(), mat.NewVecDense(l, row))
-		copy(row[:k], tmp.RawVector().Data)
-	}
-	return x.Slice(0, r, 0, k).(*mat.Dense)
 }
 
 // Pinv returns the Moore–Penrose pseudo-inverse of w (r×c, giving c×r) and

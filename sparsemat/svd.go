@@ -148,8 +148,8 @@ func TruncatedSVD(a *sparse.CSR, opts SVDOptions) (*SVD, error) {
 	svd.UTo(&ur) // l×l
 	svd.VTo(&vr) // l×l
 	out := &SVD{Values: vals[:k], Exact: exact}
-	out.U = mulInPlace(&y, vr.Slice(0, l, 0, k).(*mat.Dense)) // m×k: Q·V_r
-	out.V = mulInPlace(q2, ur.Slice(0, l, 0, k).(*mat.Dense)) // n×k: Q₂·U_r
+	out.U = MulInPlace(&y, vr.Slice(0, l, 0, k).(*mat.Dense)) // m×k: Q·V_r
+	out.V = MulInPlace(q2, ur.Slice(0, l, 0, k).(*mat.Dense)) // n×k: Q₂·U_r
 	for i, v := range out.Values {
 		if v < 0 || math.IsNaN(v) {
 			out.Values[i] = 0
@@ -158,11 +158,12 @@ func TruncatedSVD(a *sparse.CSR, opts SVDOptions) (*SVD, error) {
 	return out, nil
 }
 
-// mulInPlace overwrites the first k columns of x (r×l) with x·w for an l×k
+// MulInPlace overwrites the first k columns of x (r×l) with x·w for an l×k
 // w, one row at a time, and returns them as an r×k view of x's memory: the
-// products of a randomized SVD are as tall as the corpus, and a second
-// block of that size would raise the peak memory by as much.
-func mulInPlace(x, w *mat.Dense) *mat.Dense {
+// products of a randomized SVD (and the bases of a core) are as tall as
+// the corpus, and a second block of that size would raise the peak memory
+// by as much.
+func MulInPlace(x, w *mat.Dense) *mat.Dense {
 	r, l := x.Dims()
 	_, k := w.Dims()
 	tmp := mat.NewVecDense(k, nil)
