@@ -67,24 +67,30 @@ func BenchmarkTruncatedSVD(b *testing.B) {
 
 // BenchmarkMulDenseT compares aᵀ·y without a transpose against the product
 // with a stored transpose, side by side.
+//
+// p=1 is the product of one greedy step on the column side (the shape of
+// a 100,000-document corpus there).
 func BenchmarkMulDenseT(b *testing.B) {
-	a := randomCSR(20000, 50000, 100.0/50000, 1, -1, -1)
-	y := randomDense(20000, 60, 2)
-	at := Transpose(a)
-	b.Run("MulDenseT", func(b *testing.B) {
-		var dst mat.Dense
-		for b.Loop() {
-			dst.Reset()
-			MulDenseT(&dst, a, y)
-		}
-	})
-	b.Run("MulDense-of-transpose", func(b *testing.B) {
-		var dst mat.Dense
-		for b.Loop() {
-			dst.Reset()
-			MulDense(&dst, at, y)
-		}
-	})
+	for _, s := range []struct{ m, n, nnzRow, p int }{{20000, 50000, 100, 60}, {100000, 60000, 146, 1}} {
+		a := randomCSR(s.m, s.n, float64(s.nnzRow)/float64(s.n), 1, -1, -1)
+		y := randomDense(s.m, s.p, 2)
+		at := Transpose(a)
+		name := fmt.Sprintf("docs=%d/terms=%d/nnz=%d/p=%d", s.m, s.n, s.nnzRow, s.p)
+		b.Run(name+"/MulDenseT", func(b *testing.B) {
+			var dst mat.Dense
+			for b.Loop() {
+				dst.Reset()
+				MulDenseT(&dst, a, y)
+			}
+		})
+		b.Run(name+"/MulDense-of-transpose", func(b *testing.B) {
+			var dst mat.Dense
+			for b.Loop() {
+				dst.Reset()
+				MulDense(&dst, at, y)
+			}
+		})
+	}
 }
 
 // BenchmarkOrthonormalize compares CholeskyQR2 with Householder QR on the

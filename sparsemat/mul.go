@@ -4,8 +4,10 @@ import (
 	"runtime"
 	"slices"
 	"sync"
+	"sync/atomic"
 
 	"github.com/james-bowman/sparse"
+	"github.com/james-bowman/sparse/blas"
 	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/gonum/mat"
 )
@@ -127,16 +129,11 @@ func MulDenseT(dst *mat.Dense, a *sparse.CSR, y *mat.Dense) {
 	}
 	d := dst.RawMatrix()
 	ys := y.RawMatrix()
+	if p == 1 {
+		mulVecT(d.Data, d.Stride, raw, ys.Data, ys.Stride)
+		return
+	}
 	colRange := func(lo, hi int) {
-		if p == 1 && lo == 0 && hi == n { // a vector, one goroutine: scatter scalars
-			for i := range m {
-				yi := ys.Data[i*ys.Stride]
-				for k := raw.Indptr[i]; k < raw.Indptr[i+1]; k++ {
-					d.Data[raw.Ind[k]*d.Stride] += raw.Data[k] * yi
-				}
-			}
-			return
-		}
 		for i := range m {
 			row := raw.Ind[raw.Indptr[i]:raw.Indptr[i+1]]
 			k0, _ := slices.BinarySearch(row, lo)
@@ -149,9 +146,6 @@ func MulDenseT(dst *mat.Dense, a *sparse.CSR, y *mat.Dense) {
 	}
 	nnz := raw.Indptr[m]
 	workers := min(runtime.GOMAXPROCS(0), n, max(1, nnz/blockNNZ))
-	if p == 1 {
-		workers = 1 // a vector product is bound by memory, not arithmetic
-	}
 	if workers <= 1 {
 		colRange(0, n)
 		return
@@ -163,6 +157,63 @@ func MulDenseT(dst *mat.Dense, a *sparse.CSR, y *mat.Dense) {
 		wg.Go(func() { colRange(lo, hi) })
 	}
 	wg.Wait()
+}
+
+// vecBlockNNZ is the least number of stored values per block of rows in
+// aᵀ·y for one vector y, and vecBlocks the most blocks: a matrix of up to
+// 2·vecBlockNNZ values is one block (the plain scatter), a larger one is
+// split into at most vecBlocks blocks of about equal numbers of values.
+// (A variable, so that the tests can split small matrices.)
+var vecBlockNNZ = 1 << 20
+
+const vecBlocks = 8
+
+// mulVecT sets out[j·stride] = (aᵀ·y)_j for the vector y (y[i·ystride]),
+// out zeroed by the caller. The rows of a are cut into blocks that depend
+// on a alone (vecBlockNNZ, vecBlocks); each block scatters a_ij·y_i into
+// its own partial sum of length n in row order, on as many goroutines as
+// there are blocks and processors, and the partial sums are added in
+// block order. The bits therefore do not depend on GOMAXPROCS, and the
+// extra memory is at most vecBlocks vectors of length n. A single
+// goroutine scattering over all of A is bound by its reads (100,000×60,000,
+// 146 values a row: 38.5 ms on one core).
+func mulVecT(out []float64, stride int, raw *blas.SparseMatrix, y []float64, ystride int) {
+	m, n := raw.I, raw.J
+	nnz := raw.Indptr[m]
+	scatter := func(dst []float64, dstStride, lo, hi int) {
+		for i := lo; i < hi; i++ {
+			yi := y[i*ystride]
+			for k := raw.Indptr[i]; k < raw.Indptr[i+1]; k++ {
+				dst[raw.Ind[k]*dstStride] += raw.Data[k] * yi
+			}
+		}
+	}
+	parts := min(vecBlocks, nnz/vecBlockNNZ)
+	if parts <= 1 {
+		scatter(out, stride, 0, m)
+		return
+	}
+	bounds := rowBlocks(raw.Indptr, (nnz+parts-1)/parts)
+	blocks := len(bounds) - 1
+	partial := make([][]float64, blocks)
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(runtime.GOMAXPROCS(0), blocks) {
+		wg.Go(func() {
+			for b := int(next.Add(1) - 1); b < blocks; b = int(next.Add(1) - 1) {
+				partial[b] = make([]float64, n)
+				scatter(partial[b], 1, bounds[b], bounds[b+1])
+			}
+		})
+	}
+	wg.Wait()
+	for j := range n {
+		s := partial[0][j]
+		for _, part := range partial[1:] {
+			s += part[j]
+		}
+		out[j*stride] = s
+	}
 }
 
 // columnSplit returns parts+1 column boundaries that split the stored

@@ -2,6 +2,7 @@ package sparsemat
 
 import (
 	"fmt"
+	"math"
 	"math/rand/v2"
 	"runtime"
 	"testing"
@@ -82,6 +83,49 @@ func TestMulDenseDeterministic(t *testing.T) {
 	}
 	if !mat.Equal(&oneT, &manyT) {
 		t.Fatal("MulDenseT: GOMAXPROCS 1 and 8 give different bits")
+	}
+}
+
+// aᵀ·y for one vector is split into row blocks with partial sums above
+// vecBlockNNZ values (lowered here so that a small matrix is split into
+// the most blocks): it must agree with the dense product (tolerance as in
+// TestMulDenseOracle), give the same bits for GOMAXPROCS 1 and 8, and be
+// the plain scatter, bit for bit, when the matrix is one block (common
+// practice: a reference implementation in the test, no outside source).
+func TestMulDenseTVectorBlocks(t *testing.T) {
+	a := randomCSR(3000, 400, 0.05, 11, 7, 13)
+	y := randomDense(3000, 1, 12)
+	var want mat.Dense
+	want.Mul(dense(a).T(), y)
+	saved := vecBlockNNZ
+	defer func() { vecBlockNNZ = saved }()
+	vecBlockNNZ = 1000 // about 60,000 values: the most blocks, vecBlocks
+	prev := runtime.GOMAXPROCS(1)
+	var one, many mat.Dense
+	MulDenseT(&one, a, y)
+	runtime.GOMAXPROCS(8)
+	MulDenseT(&many, a, y)
+	runtime.GOMAXPROCS(prev)
+	if !mat.EqualApprox(&one, &want, tolProduct) {
+		t.Fatal("blocked aᵀ·y differs from the dense product")
+	}
+	if !mat.Equal(&one, &many) {
+		t.Fatal("blocked aᵀ·y: GOMAXPROCS 1 and 8 give different bits")
+	}
+	vecBlockNNZ = saved // one block
+	var single mat.Dense
+	MulDenseT(&single, a, y)
+	raw := a.RawMatrix()
+	plain := make([]float64, 400)
+	for i := range 3000 {
+		for k := raw.Indptr[i]; k < raw.Indptr[i+1]; k++ {
+			plain[raw.Ind[k]] += raw.Data[k] * y.At(i, 0)
+		}
+	}
+	for j, w := range plain {
+		if v := single.At(j, 0); math.Float64bits(v) != math.Float64bits(w) {
+			t.Fatalf("one block: entry %d = %v, plain scatter %v", j, v, w)
+		}
 	}
 }
 
