@@ -78,13 +78,17 @@ func greedyCols(a *sparse.CSR, svd *sparsemat.SVD, c int) []Pick {
 		d:     scaledBy(svd.V, svd.Values, 2),
 		basis: svd.U, values: svd.Values,
 		vector: func(j int, dst []float64) {
-			clear(dst)
-			for i := range m {
-				lo, hi := raw.Indptr[i], raw.Indptr[i+1]
-				if k, ok := slices.BinarySearch(raw.Ind[lo:hi], j); ok {
-					dst[i] = raw.Data[lo+k]
+			// A binary search in every row, in parallel over blocks of
+			// rows (each entry of dst is written by one goroutine).
+			forBlocks((m+candidateBlock-1)/candidateBlock, func(b int) {
+				for i := b * candidateBlock; i < min((b+1)*candidateBlock, m); i++ {
+					lo, hi := raw.Indptr[i], raw.Indptr[i+1]
+					dst[i] = 0
+					if k, ok := slices.BinarySearch(raw.Ind[lo:hi], j); ok {
+						dst[i] = raw.Data[lo+k]
+					}
 				}
-			}
+			})
 		},
 		apply: func(q, dst *mat.Dense) { sparsemat.MulDenseT(dst, a, q) },
 	}, min(c, n), sparsemat.FrobeniusSq(a))
@@ -113,6 +117,34 @@ func forBlocks(blocks int, fn func(b int)) {
 		})
 	}
 	wg.Wait()
+}
+
+// gemvBlock is the number of rows of x per partial sum in mulVecT: fixed,
+// so that the bits do not depend on GOMAXPROCS; a matrix of at most this
+// many rows is summed as one block, row by row, as gonum's Dgemv does.
+const gemvBlock = 8192
+
+// mulVecT sets w = xᵀ·v for the dense x (rows × len(w)), in parallel: each
+// block of gemvBlock rows adds v_i·x(i, :) into its own partial sum in row
+// order, and the partial sums are added in block order (x has a row at
+// least).
+func mulVecT(w []float64, x *mat.Dense, v []float64) {
+	raw := x.RawMatrix()
+	blocks := (raw.Rows + gemvBlock - 1) / gemvBlock
+	partial := make([][]float64, blocks)
+	forBlocks(blocks, func(b int) {
+		sum := make([]float64, len(w))
+		for i := b * gemvBlock; i < min((b+1)*gemvBlock, raw.Rows); i++ {
+			if v[i] != 0 {
+				floats.AddScaled(sum, v[i], raw.Data[i*raw.Stride:i*raw.Stride+len(w)])
+			}
+		}
+		partial[b] = sum
+	})
+	copy(w, partial[0])
+	for _, sum := range partial[1:] {
+		floats.Add(w, sum)
+	}
 }
 
 // scaledBy returns x with column t multiplied by values[t]^power.
@@ -160,10 +192,11 @@ func greedy(s greedySide, k int, total float64) []Pick {
 		}
 		return best, bestGain
 	}
+	// The best candidate of each fixed block, then the first best block:
+	// the same choice for any number of goroutines. After the first step
+	// the blocks' bests come from the pass that updates d.
+	forBlocks(blocks, func(b int) { blockBest[b], blockGain[b] = scan(b) })
 	for step := range k {
-		// The best candidate of each fixed block, then the first best
-		// block: the same choice for any number of goroutines.
-		forBlocks(blocks, func(b int) { blockBest[b], blockGain[b] = scan(b) })
 		var best int
 		var bestGain float64
 		for {
@@ -211,10 +244,13 @@ func greedy(s greedySide, k int, total float64) []Pick {
 		s.apply(q, &aq)
 		p := aq.RawMatrix().Data
 		// w = Σ_l·V_lᵀ·q.
-		wv.MulVec(s.basis.T(), mat.NewVecDense(s.dim, vec))
+		mulVecT(w, s.basis, vec)
 		for t := range w {
 			w[t] *= s.values[t]
 		}
+		// Update every candidate and find the blocks' bests for the next
+		// step in the same pass over d (one read of d a step instead of
+		// two; the gains are those scan computes).
 		forBlocks(blocks, func(b int) {
 			for i := b * candidateBlock; i < min((b+1)*candidateBlock, s.count); i++ {
 				if taken[i] || p[i] == 0 {
@@ -223,6 +259,7 @@ func greedy(s greedySide, k int, total float64) []Pick {
 				resid[i] -= p[i] * p[i]
 				floats.AddScaled(d.RawRowView(i), -p[i], w)
 			}
+			blockBest[b], blockGain[b] = scan(b)
 		})
 	}
 	return picks

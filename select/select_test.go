@@ -1,6 +1,8 @@
 package selection
 
 import (
+	"math"
+	"math/rand/v2"
 	"reflect"
 	"runtime"
 	"slices"
@@ -160,6 +162,47 @@ func TestSelectRejects(t *testing.T) {
 	for _, rank := range []int{1, len(svd.Values)} {
 		if _, err := Select(a, with(func(o *Options) { o.Method, o.Rank = MethodLeverage, rank })); err != nil {
 			t.Errorf("rank %d rejected: %v", rank, err)
+		}
+	}
+}
+
+// mulVecT (the greedy step's Σ·Vᵀ·q) against gonum's Dgemv: the same bits
+// for a matrix of one block (gemvBlock rows or fewer), since both add
+// v_i·x(i, :) row by row; within 1e-12 relative for three blocks (the
+// partial sums regroup about 20,000 products of values below 1: rounding
+// of order 20,000·ε ≈ 4e-12 absolute on entries of order 1 at worst,
+// common practice); and the same bits for GOMAXPROCS 1 and 4.
+func TestMulVecT(t *testing.T) {
+	for _, rows := range []int{5000, 20000} {
+		rng := rand.New(rand.NewPCG(uint64(rows), 3))
+		x := mat.NewDense(rows, 7, nil)
+		v := make([]float64, rows)
+		for i := range rows {
+			v[i] = rng.Float64() - 0.5
+			for j := range 7 {
+				x.Set(i, j, rng.Float64()-0.5)
+			}
+		}
+		var want mat.VecDense
+		want.MulVec(x.T(), mat.NewVecDense(rows, v))
+		got := make([]float64, 7)
+		prev := runtime.GOMAXPROCS(1)
+		mulVecT(got, x, v)
+		runtime.GOMAXPROCS(4)
+		got4 := make([]float64, 7)
+		mulVecT(got4, x, v)
+		runtime.GOMAXPROCS(prev)
+		for j := range 7 {
+			w := want.AtVec(j)
+			if math.Float64bits(got[j]) != math.Float64bits(got4[j]) {
+				t.Fatalf("rows %d: entry %d differs between GOMAXPROCS 1 and 4", rows, j)
+			}
+			if rows <= gemvBlock && math.Float64bits(got[j]) != math.Float64bits(w) {
+				t.Fatalf("rows %d (one block): entry %d = %v, Dgemv %v", rows, j, got[j], w)
+			}
+			if math.Abs(got[j]-w) > 1e-12*math.Max(1, math.Abs(w)) {
+				t.Fatalf("rows %d: entry %d = %v, Dgemv %v", rows, j, got[j], w)
+			}
 		}
 	}
 }
