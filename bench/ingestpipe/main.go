@@ -109,6 +109,7 @@ func main() {
 		last = nil
 		runtime.GC()
 		start, cpu0 := time.Now(), cpuSeconds()
+		phaseStart = start
 		var res *result
 		if *collector == "maps" {
 			res, err = ingestMaps(root.FS(), opts, *jobs, *minhash)
@@ -259,6 +260,9 @@ func ingestIDs(fsys fs.FS, opts textproc.Options, jobs int, minhash bool) (*resu
 	return res, err
 }
 
+// phaseStart is when the current run began, for phase.
+var phaseStart time.Time
+
 // phase prints the resident memory and the heap at a step of the ingest,
 // when INGESTPIPE_PHASES is set.
 func phase(name string) {
@@ -267,7 +271,7 @@ func phase(name string) {
 	}
 	var ms runtime.MemStats
 	runtime.ReadMemStats(&ms)
-	fmt.Printf("  %s: resident %d MiB (peak %d MiB), heap in use %d MiB, live after last GC %d MiB\n", name, rssKB("VmRSS")/1024, rssKB("VmHWM")/1024, ms.HeapInuse>>20, ms.HeapAlloc>>20)
+	fmt.Printf("  %s at %.3f s: resident %d MiB (peak %d MiB), heap in use %d MiB, live after last GC %d MiB\n", name, time.Since(phaseStart).Seconds(), rssKB("VmRSS")/1024, rssKB("VmHWM")/1024, ms.HeapInuse>>20, ms.HeapAlloc>>20)
 }
 
 // checksum hashes the matrix, its terms, DF and rows, the display form
