@@ -10,6 +10,7 @@ import (
 	"strings"
 	"unicode"
 	"unicode/utf8"
+	"unsafe"
 )
 
 // DefaultMaxBytes is the default size limit for one file: 20 MiB.
@@ -220,8 +221,19 @@ func readFile(fsys fs.FS, p string, d fs.DirEntry, opts Options) ([]byte, reader
 
 // decodeText turns raw bytes of a text file into valid UTF-8 (dropping a
 // byte order mark), or gives the reason it is not text.
+//
+// When raw is valid UTF-8 the text is raw itself, not a copy (the bytes
+// of the text files are most of what an ingest allocates: the copy was
+// 2.4% of the CPU time of bench/ingestpipe on 100,000 generated files),
+// so raw must not change afterwards. The readers never change it: it is a
+// file's bytes, or a message part's, read or decoded for this call.
 func decodeText(raw []byte) (text string, repaired int, why string) {
-	text, bad := repairUTF8(raw)
+	bad := 0
+	if utf8.Valid(raw) {
+		text = unsafe.String(unsafe.SliceData(raw), len(raw))
+	} else {
+		text, bad = repairUTF8(raw)
+	}
 	if bad*10 > len(raw) {
 		return "", 0, fmt.Sprintf("not UTF-8 text (%d invalid byte sequences in %d bytes)", bad, len(raw))
 	}
