@@ -25,6 +25,8 @@
 #   assay pick DIR --timings --format json -q --lang english
 #   assay pick DIR --timings --format json -q --lang english --no-stem
 #   assay pick DIR --timings --format json -q --lang auto
+#   assay pick DIR --timings --format json -q --lang english --near-dup off
+#   assay pick DIR --timings --format json -q --lang english --no-stem --near-dup off
 #
 # under /usr/bin/time -f '%e %M' (wall seconds, peak resident KiB), and
 # bench/ingest_sklearn.py without and with stemming on the corpora of .txt
@@ -128,6 +130,8 @@ for run in $(seq "$RUNS"); do
 			TOOL=$tool assay_run "$name" "$dir" english "$run" --lang english
 			TOOL=$tool assay_run "$name" "$dir" english-nostem "$run" --lang english --no-stem
 			TOOL=$tool assay_run "$name" "$dir" auto "$run" --lang auto
+			TOOL=$tool assay_run "$name" "$dir" english-nodup "$run" --lang english --near-dup off
+			TOOL=$tool assay_run "$name" "$dir" nostem-nodup "$run" --lang english --no-stem --near-dup off
 		done
 		if [ "$SKLEARN" = 1 ] && [ "$ext" != - ]; then
 			sklearn_run "$name" "$dir" "$ext" nostem "$run"
@@ -162,7 +166,7 @@ print("### assay pick: ingest (timings.read), medians of %d runs\n" % len(next(i
 print("| corpus | documents | input MB | binary | mode | ingest s | ingest MB/s | whole pick s | peak RSS MiB |")
 print("| --- | --- | --- | --- | --- | --- | --- | --- | --- |")
 for c in corpora:
-    for mode in ("english", "english-nostem", "auto", "pick50"):
+    for mode in ("english", "english-nostem", "auto", "english-nodup", "nostem-nodup", "pick50"):
         for tool in ("assay", "base"):
             k = (c, tool, mode)
             if k not in by:
@@ -171,9 +175,10 @@ for c in corpora:
             print("| %s | %d | %.1f | %s | %s | %.2f | %.1f | %.2f | %.0f |" % (c, docs, nb / 1e6, tool, mode, m(k, 0), nb / 1e6 / m(k, 0), m(k, 1), m(k, 2) / 1024))
 if any(k[1] == "base" for k in by):
     print("\nbase / assay ingest time (medians): " + ", ".join("%s %s %.2f×" % (c, mode, m((c, "base", mode), 0) / m((c, "assay", mode), 0))
-          for c in corpora for mode in ("english", "english-nostem", "auto") if (c, "base", mode) in by))
+          for c in corpora for mode in ("english", "english-nostem", "auto", "english-nodup", "nostem-nodup") if (c, "base", mode) in by))
 print("\n### side by side with scikit-learn (ratio = scikit-learn time / assay ingest time)\n")
-print("| corpus | scikit-learn, no stemming: s (MB/s) | assay --no-stem: s (MB/s) | ratio | scikit-learn, memoised Snowball: s (MB/s) | assay --lang english: s (MB/s) | ratio | assay auto: s |")
+print("The first assay time of each pair is the default pick, which also computes the MinHash signatures of the near-copy search in its workers; the second is with --near-dup off, the like-for-like comparison (scikit-learn computes no signatures).\n")
+print("| corpus | scikit-learn, no stemming: s (MB/s) | assay --no-stem: s (ratio) | the same, --near-dup off: s (MB/s, ratio) | scikit-learn, memoised Snowball: s (MB/s) | assay --lang english: s (ratio) | the same, --near-dup off: s (MB/s, ratio) | assay auto: s |")
 print("| --- | --- | --- | --- | --- | --- | --- | --- |")
 for c in corpora:
     if (c, "sklearn", "nostem") not in by:
@@ -181,7 +186,9 @@ for c in corpora:
     nb = info[(c, "sklearn", "nostem")][0]
     pn, ps = m((c, "sklearn", "nostem"), 0), m((c, "sklearn", "stem"), 0)
     an, ae, aa = m((c, "assay", "english-nostem"), 0), m((c, "assay", "english"), 0), m((c, "assay", "auto"), 0)
-    print("| %s | %.2f (%.1f) | %.2f (%.1f) | %.1f× | %.2f (%.1f) | %.2f (%.1f) | %.1f× | %.2f |" % (c, pn, nb / 1e6 / pn, an, nb / 1e6 / an, pn / an, ps, nb / 1e6 / ps, ae, nb / 1e6 / ae, ps / ae, aa))
+    dn, de = m((c, "assay", "nostem-nodup"), 0), m((c, "assay", "english-nodup"), 0)
+    print("| %s | %.2f (%.1f) | %.2f (%.1f×) | %.2f (%.1f, %.1f×) | %.2f (%.1f) | %.2f (%.1f×) | %.2f (%.1f, %.1f×) | %.2f |" % (
+        c, pn, nb / 1e6 / pn, an, pn / an, dn, nb / 1e6 / dn, pn / dn, ps, nb / 1e6 / ps, ae, ps / ae, de, nb / 1e6 / de, ps / de, aa))
     ta, ts = info[(c, "assay", "english")][2], info[(c, "sklearn", "stem")][2]
     print("|  | matrix: scikit-learn %s terms, %s non-zeros; assay %s terms, %s non-zeros |  |  |  |  |  |  |" % (ts["terms"], ts["nnz"], ta["terms"], ta["nnz"]))
 k = (largest, "assay", "pick50")
