@@ -119,16 +119,17 @@ func forBlocks(blocks int, fn func(b int)) {
 	wg.Wait()
 }
 
-// gemvBlock is the number of rows of x per partial sum in mulVecT: fixed,
-// so that the bits do not depend on GOMAXPROCS; a matrix of at most this
-// many rows is summed as one block, row by row, as gonum's Dgemv does.
+// gemvBlock is the number of rows of x per partial sum in denseMulVecT:
+// fixed, so that the bits do not depend on GOMAXPROCS; a matrix of at most
+// this many rows is summed as one block, row by row, as gonum's Dgemv
+// does.
 const gemvBlock = 8192
 
-// mulVecT sets w = xᵀ·v for the dense x (rows × len(w)), in parallel: each
-// block of gemvBlock rows adds v_i·x(i, :) into its own partial sum in row
-// order, and the partial sums are added in block order (x has a row at
-// least).
-func mulVecT(w []float64, x *mat.Dense, v []float64) {
+// denseMulVecT sets w = xᵀ·v for the dense x (rows × len(w), at least one
+// row), in parallel: each block of gemvBlock rows adds v_i·x(i, :) into
+// its own partial sum in row order, and the partial sums are added in
+// block order.
+func denseMulVecT(w []float64, x *mat.Dense, v []float64) {
 	raw := x.RawMatrix()
 	blocks := (raw.Rows + gemvBlock - 1) / gemvBlock
 	partial := make([][]float64, blocks)
@@ -170,8 +171,7 @@ func greedy(s greedySide, k int, total float64) []Pick {
 	var basis [][]float64 // orthonormal basis of the picked vectors
 	q := mat.NewDense(s.dim, 1, nil)
 	var aq mat.Dense
-	wv := mat.NewVecDense(l, nil)
-	w := wv.RawVector().Data
+	w := make([]float64, l)
 	vec := make([]float64, s.dim)
 	var picks []Pick
 	blocks := (s.count + candidateBlock - 1) / candidateBlock
@@ -233,6 +233,10 @@ func greedy(s greedySide, k int, total float64) []Pick {
 		}
 		norm := floats.Norm(vec, 2)
 		if norm == 0 {
+			// Nothing new (the scan's threshold should have ruled it
+			// out): its block's best is found again without it.
+			b := best / candidateBlock
+			blockBest[b], blockGain[b] = scan(b)
 			continue
 		}
 		floats.Scale(1/norm, vec)
@@ -244,7 +248,7 @@ func greedy(s greedySide, k int, total float64) []Pick {
 		s.apply(q, &aq)
 		p := aq.RawMatrix().Data
 		// w = Σ_l·V_lᵀ·q.
-		mulVecT(w, s.basis, vec)
+		denseMulVecT(w, s.basis, vec)
 		for t := range w {
 			w[t] *= s.values[t]
 		}
