@@ -160,9 +160,10 @@ func MulDenseT(dst *mat.Dense, a *sparse.CSR, y *mat.Dense) {
 }
 
 // vecBlockNNZ is the least number of stored values per block of rows in
-// aᵀ·y for one vector y, and vecBlocks the most blocks: a matrix of up to
-// 2·vecBlockNNZ values is one block (the plain scatter), a larger one is
-// split into at most vecBlocks blocks of about equal numbers of values.
+// aᵀ·y for one vector y, and vecBlocks the most parts: a matrix of fewer
+// than 2·vecBlockNNZ values is one block (the plain scatter), a larger one
+// is cut into at most vecBlocks parts of about equal numbers of values
+// (whole rows, so one more, shorter block may be left at the end).
 // (A variable, so that the tests can split small matrices.)
 var vecBlockNNZ = 1 << 20
 
@@ -174,7 +175,7 @@ const vecBlocks = 8
 // its own partial sum of length n in row order, on as many goroutines as
 // there are blocks and processors, and the partial sums are added in
 // block order. The bits therefore do not depend on GOMAXPROCS, and the
-// extra memory is at most vecBlocks vectors of length n. A single
+// extra memory is at most vecBlocks + 1 vectors of length n. A single
 // goroutine scattering over all of A is bound by its reads (100,000×60,000,
 // 146 values a row: 38.5 ms on one core).
 func mulVecT(out []float64, stride int, raw *blas.SparseMatrix, y []float64, ystride int) {
