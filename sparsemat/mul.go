@@ -4,7 +4,6 @@ import (
 	"runtime"
 	"slices"
 	"sync"
-	"sync/atomic"
 
 	"github.com/james-bowman/sparse"
 	"github.com/james-bowman/sparse/blas"
@@ -197,17 +196,10 @@ func mulVecT(out []float64, stride int, raw *blas.SparseMatrix, y []float64, yst
 	bounds := rowBlocks(raw.Indptr, (nnz+parts-1)/parts)
 	blocks := len(bounds) - 1
 	partial := make([][]float64, blocks)
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for range min(runtime.GOMAXPROCS(0), blocks) {
-		wg.Go(func() {
-			for b := int(next.Add(1) - 1); b < blocks; b = int(next.Add(1) - 1) {
-				partial[b] = make([]float64, n)
-				scatter(partial[b], 1, bounds[b], bounds[b+1])
-			}
-		})
-	}
-	wg.Wait()
+	parallelBlocks(blocks, func(b int) {
+		partial[b] = make([]float64, n)
+		scatter(partial[b], 1, bounds[b], bounds[b+1])
+	})
 	for j := range n {
 		s := partial[0][j]
 		for _, part := range partial[1:] {
