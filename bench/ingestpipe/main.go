@@ -177,10 +177,7 @@ func ingestMaps(fsys fs.FS, opts textproc.Options, jobs int, minhash bool) (*res
 		for f, n := range r.forms {
 			res.display.AddN(f[0], f[1], n)
 		}
-		fp.Add(&d)
-		res.docs++
-		res.bytes += d.Size
-		res.sigs = append(res.sigs, r.sig...)
+		res.tally(&fp, &d, r.sig)
 		return nil
 	})
 	if err != nil {
@@ -235,10 +232,7 @@ func ingestIDs(fsys fs.FS, opts textproc.Options, jobs int, minhash bool) (*resu
 	}
 	_, err := corpus.WalkParallel(fsys, corpus.Options{}, jobs, newWorker, func(d corpus.Document, r analysed) error {
 		b.AddCounted(r.row)
-		fp.Add(&d)
-		res.docs++
-		res.bytes += d.Size
-		res.sigs = append(res.sigs, r.sig...)
+		res.tally(&fp, &d, r.sig)
 		return nil
 	})
 	if err != nil {
@@ -258,6 +252,15 @@ func ingestIDs(fsys fs.FS, opts textproc.Options, jobs int, minhash bool) (*resu
 	res.counts, err = b.Build(sparsemat.Pruning{MinDF: 2, MaxDFShare: 0.5})
 	phase("built")
 	return res, err
+}
+
+// tally adds a collected document to the result: its fingerprint, count,
+// size and signature.
+func (r *result) tally(fp *corpus.Fingerprint, d *corpus.Document, sig []uint32) {
+	fp.Add(d)
+	r.docs++
+	r.bytes += d.Size
+	r.sigs = append(r.sigs, sig...)
 }
 
 // phaseStart is when the current run began, for phase.
