@@ -125,6 +125,7 @@ func (a *Analyzer) Normalize(text string) string {
 func (a *Analyzer) tokenize(text string) {
 	a.tok.reset()
 	a.tok.run(a.normalized(text))
+	a.tok.arena = slices.Grow(a.tok.arena, 12) // room for probe's loads
 }
 
 // normalized returns text normalised for a tokenizer that lower-cases
@@ -407,15 +408,11 @@ func (a *Analyzer) analyzeNoMemo(emit func(term, surface string)) Language {
 // (the script of a word, scriptGram for a bigram); then it settles the
 // document's language and returns its index in langTable.
 func (a *Analyzer) lookUp(text string) int {
-	a.at, a.sc = a.at[:0], a.sc[:0]
 	a.tokenize(text)
-	for _, ref := range a.tok.refs {
-		b := a.tok.token(ref)
-		if ref.kind == tokGram {
-			a.at = append(a.at, a.gramEntry(b))
-			a.sc = append(a.sc, scriptGram)
-		} else {
-			a.addWord(b, ref.script)
+	a.probe()
+	for k, si := range a.at {
+		if si < 0 {
+			a.at[k] = a.wordSlot(a.tok.token(a.tok.refs[k]), a.sc[k])
 		}
 	}
 	if a.fixed >= 0 {
@@ -457,10 +454,42 @@ func (a *Analyzer) lookUp(text string) int {
 	return doc
 }
 
-// addWord looks up the word token b, whose first letter is of script sc
-// (scriptNone for a number), adding it if it is new, and appends its slot
-// and script to a.at and a.sc.
-func (a *Analyzer) addWord(b []byte, sc script) {
+// probe fills a.at and a.sc for the tokens of the current document: the
+// entry of each bigram, and the slot of each word token that is in the
+// table at the slot its hash points to; -1 for every other word token
+// (longer than wKey, elsewhere in the table, or new), which lookUp then
+// finds with wordSlot. The loop does little besides loading the slots, so
+// that the processor can wait for several of them at once: with a large
+// vocabulary most of the time of a look-up is the wait for its slot.
+func (a *Analyzer) probe() {
+	refs := a.tok.refs
+	a.at = slices.Grow(a.at[:0], len(refs))[:len(refs)]
+	a.sc = slices.Grow(a.sc[:0], len(refs))[:len(refs)]
+	arena := a.tok.arena[:cap(a.tok.arena)] // tokenize leaves 12 bytes of room
+	slots := a.words.slots
+	mask := uint64(len(slots) - 1)
+	for k, ref := range refs {
+		if ref.kind == tokGram {
+			a.at[k], a.sc[k] = a.gramEntry(arena[ref.start:ref.end]), scriptGram
+			continue
+		}
+		a.sc[k] = ref.script
+		n := ref.end - ref.start
+		si := int32(-1)
+		if n <= wKey {
+			x, y := paddedWords(arena[ref.start:ref.start+12], n)
+			i := hashHead(x, y, n) & mask
+			if sx, sy := slots[i].head(); sx == x && sy == y|uint32(n)<<24 {
+				si = int32(i)
+			}
+		}
+		a.at[k] = si
+	}
+}
+
+// wordSlot returns the slot of the word token b, whose first letter is of
+// script sc (scriptNone for a number), adding it if it is new.
+func (a *Analyzer) wordSlot(b []byte, sc script) int32 {
 	h := hashToken(b)
 	i, ok := a.words.find(b, h, a.toks)
 	if !ok {
@@ -470,17 +499,17 @@ func (a *Analyzer) addWord(b []byte, sc script) {
 		}
 		a.newToken(i, b, sc)
 	}
-	a.at = append(a.at, int32(i))
-	a.sc = append(a.sc, sc)
+	return int32(i)
 }
 
 // growWords doubles the word table and moves the slots of the current
-// document's words in a.at to their new places.
+// document's words in a.at to their new places (those not found yet, -1,
+// stay so).
 func (a *Analyzer) growWords() {
 	old := a.words.slots
 	a.words.grow(a.toks)
 	for k, sc := range a.sc {
-		if sc != scriptGram {
+		if sc != scriptGram && a.at[k] >= 0 {
 			s := &old[a.at[k]]
 			a.at[k] = int32(a.words.slotOf(s, a.toks))
 		}
