@@ -1,6 +1,9 @@
 package textproc
 
 import (
+	"encoding/binary"
+	"math/bits"
+	"slices"
 	"unicode"
 	"unicode/utf8"
 )
@@ -94,6 +97,9 @@ type tokenizer struct {
 	gclass gramClass
 	// lower writes ASCII capitals in lower case (see run).
 	lower bool
+	// bytewise turns asciiRun off, for tests: ASCII words are then
+	// scanned a byte at a time.
+	bytewise bool
 }
 
 // reset empties the token list, keeping the buffers.
@@ -172,6 +178,51 @@ var asciiClass, wordBits = func() (c [utf8.RuneSelf]uint8, w [256]uint8) {
 	return c, w
 }()
 
+// Words of 8 bytes, for asciiRun.
+const (
+	swarOnes = 0x0101010101010101
+	swarHigh = 0x8080808080808080
+)
+
+// swarAtLeast returns, in the high bit of each byte, whether that byte of
+// x, whose high bits are clear, is at least c (c <= 0x80): the sum of the
+// byte and 0x80-c stays below 0x100, so no byte carries into the next.
+func swarAtLeast(x uint64, c byte) uint64 {
+	return x + swarOnes*uint64(0x80-c)
+}
+
+// asciiRun copies to t.arena the ASCII letters and digits of text from i
+// on, eight bytes at a time while eight bytes of text remain, in lower
+// case when t.lower is set, and returns where it stopped (at the first
+// other byte, or with fewer than eight bytes left, which run scans a byte
+// at a time) and whether it copied a letter.
+func (t *tokenizer) asciiRun(text string, i int) (int, bool) {
+	letters := uint64(0)
+	for !t.bytewise && i+8 <= len(text) {
+		x := uint64(text[i]) | uint64(text[i+1])<<8 | uint64(text[i+2])<<16 | uint64(text[i+3])<<24 |
+			uint64(text[i+4])<<32 | uint64(text[i+5])<<40 | uint64(text[i+6])<<48 | uint64(text[i+7])<<56
+		x7 := x &^ swarHigh
+		upper := swarAtLeast(x7, 'A') &^ swarAtLeast(x7, 'Z'+1)
+		alpha := upper | swarAtLeast(x7, 'a')&^swarAtLeast(x7, 'z'+1)
+		word := (alpha | swarAtLeast(x7, '0')&^swarAtLeast(x7, '9'+1)) &^ x & swarHigh
+		n := bits.TrailingZeros64(^word&swarHigh) >> 3 // word bytes before the first other one
+		keep := uint64(1)<<(8*n) - 1                   // n = 8 shifts by 64: all ones
+		letters |= alpha & keep
+		if t.lower {
+			x |= (upper & keep & swarHigh) >> 2 // 0x20 on each capital
+		}
+		l := len(t.arena)
+		t.arena = slices.Grow(t.arena, 8)
+		binary.LittleEndian.PutUint64(t.arena[l:l+8], x)
+		t.arena = t.arena[:l+n]
+		i += n
+		if n < 8 {
+			break
+		}
+	}
+	return i, letters&swarHigh != 0
+}
+
 // run appends the tokens of text by the rule of the package documentation.
 // ASCII letters, digits and separators take a fast path; everything else
 // (the apostrophes, and every character outside ASCII) goes through the
@@ -198,6 +249,8 @@ func (t *tokenizer) run(text string) {
 				if !t.inWord {
 					t.inWord, t.wstart, t.wscript = true, len(t.arena), scriptNone
 				}
+				var letters bool
+				i, letters = t.asciiRun(text, i)
 				j, seen := i, uint8(0)
 				for ; j < len(text); j++ {
 					f := wordBits[text[j]]
@@ -206,7 +259,7 @@ func (t *tokenizer) run(text string) {
 					}
 					seen |= f
 				}
-				if t.wscript == scriptNone && seen&(1<<asciiLower|1<<asciiUpper) != 0 {
+				if t.wscript == scriptNone && (letters || seen&(1<<asciiLower|1<<asciiUpper) != 0) {
 					t.wscript = scriptLatin
 				}
 				start := len(t.arena)
