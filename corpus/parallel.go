@@ -83,12 +83,18 @@ func WalkParallel[R any](fsys fs.FS, opts Options, jobs int, newWorker func() fu
 	for range jobs {
 		wg.Go(func() {
 			work := newWorker()
+			var fr fileReader
+			if f, ok := fsys.(fileReaderFS); ok {
+				if fr = f.newFileReader(); fr != nil {
+					defer fr.close()
+				}
+			}
 			for t := range tasks {
 				r := result{seq: t.seq}
 				if t.skip != nil {
 					r.skips = []Skip{*t.skip}
 				} else {
-					r.docs, r.skips = readOne(fsys, t.path, t.d, &opts)
+					r.docs, r.skips = readOne(fsys, fr, t.path, t.d, &opts)
 					for i := range r.docs {
 						r.rs = append(r.rs, work(r.docs[i]))
 						r.docs[i].Text = ""
@@ -151,8 +157,8 @@ func WalkParallel[R any](fsys fs.FS, opts Options, jobs int, newWorker func() fu
 
 // readOne reads and extracts one file as Walk does: its documents, and its
 // skips (the parts of it, then the file itself).
-func readOne(fsys fs.FS, p string, d fs.DirEntry, opts *Options) ([]Document, []Skip) {
-	raw, rd, why := readRegular(fsys, p, d, opts)
+func readOne(fsys fs.FS, fr fileReader, p string, d fs.DirEntry, opts *Options) ([]Document, []Skip) {
+	raw, rd, why := readRegular(fsys, fr, p, d, opts)
 	if why != "" {
 		return nil, []Skip{{Path: p, Reason: why}}
 	}
@@ -168,24 +174,29 @@ func readOne(fsys fs.FS, p string, d fs.DirEntry, opts *Options) ([]Document, []
 
 // readRegular reads a file as [readFile] does, in fewer system calls when
 // the directory entry says it is a plain regular file (not a symbolic
-// link): it opens the file, takes its size from the open file instead of
-// looking the path up a second time, and reads it into a buffer of that
-// size in one call (and one more to see the end of the file). Anything
-// out of the ordinary (another kind of entry, an error, a size of zero or
-// above the limit, a file that is not where its size says it ends) goes
-// to readFile, which gives the same result or the same reason as it
-// always does.
-func readRegular(fsys fs.FS, p string, d fs.DirEntry, opts *Options) ([]byte, reader, string) {
+// link): through fr when the worker has one (see RootFS), else it opens
+// the file, takes its size from the open file instead of looking the path
+// up a second time, and reads it into a buffer of that size in one call
+// (and one more to see the end of the file). Anything out of the ordinary
+// (another kind of entry, an error, a size of zero or above the limit, a
+// file that is not where its size says it ends) goes to readFile, which
+// gives the same result or the same reason as it always does.
+func readRegular(fsys fs.FS, fr fileReader, p string, d fs.DirEntry, opts *Options) ([]byte, reader, string) {
 	rd, ok := readers[strings.ToLower(path.Ext(p))]
 	if !ok || d == nil || !d.Type().IsRegular() {
 		return readFile(fsys, p, d, *opts)
 	}
-	f, err := fsys.Open(p)
-	if err != nil {
-		return readFile(fsys, p, d, *opts)
+	var raw []byte
+	if fr != nil {
+		raw, ok = fr.read(p, opts.MaxBytes)
+	} else {
+		f, err := fsys.Open(p)
+		if err != nil {
+			return readFile(fsys, p, d, *opts)
+		}
+		raw, ok = readSized(f, opts.MaxBytes)
+		f.Close()
 	}
-	raw, ok := readSized(f, opts.MaxBytes)
-	f.Close()
 	if !ok {
 		return readFile(fsys, p, d, *opts)
 	}

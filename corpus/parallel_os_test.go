@@ -2,6 +2,7 @@ package corpus_test
 
 import (
 	"fmt"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"strings"
@@ -13,9 +14,10 @@ import (
 )
 
 // WalkParallel reads regular files with fewer system calls than Walk
-// (corpus/parallel.go, readRegular) and hands everything else to Walk's
-// reader: on real files through os.Root, as the command reads them, both
-// must give the same documents and the same skips, with the same reasons.
+// (corpus/parallel.go, readRegular; fewer still through RootFS) and hands
+// everything else to Walk's reader: on real files through os.Root, as the
+// command reads them, both must give the same documents and the same
+// skips, with the same reasons.
 // The fixture has plain files of several formats, an empty one, one over
 // the size limit, a binary one, white space only, invalid UTF-8, links to
 // a file, to a folder, out of the root and dangling, a named pipe (which
@@ -66,13 +68,18 @@ func TestWalkParallelMatchesWalkOnDisk(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	for _, jobs := range []int{1, 4} {
+	for _, run := range []struct {
+		name string
+		fsys fs.FS
+		jobs int
+	}{{"root.FS", root.FS(), 1}, {"root.FS", root.FS(), 4}, {"RootFS", corpus.RootFS(root), 1}, {"RootFS", corpus.RootFS(root), 4}} {
+		jobs := run.jobs
 		done := make(chan struct{})
 		var got []string
 		var skips []corpus.Skip
 		go func() {
 			defer close(done)
-			skips, err = corpus.WalkParallel(root.FS(), opts, jobs,
+			skips, err = corpus.WalkParallel(run.fsys, opts, jobs,
 				func() func(corpus.Document) int { return func(d corpus.Document) int { return len(d.Text) } },
 				func(d corpus.Document, n int) error {
 					got = append(got, describe(d)+fmt.Sprintf(" %d", n))
@@ -88,10 +95,10 @@ func TestWalkParallelMatchesWalkOnDisk(t *testing.T) {
 			t.Fatal(err)
 		}
 		if strings.Join(got, "\n") != strings.Join(want, "\n") {
-			t.Errorf("%d jobs: documents\n%s\nWalk:\n%s", jobs, strings.Join(got, "\n"), strings.Join(want, "\n"))
+			t.Errorf("%s, %d jobs: documents\n%s\nWalk:\n%s", run.name, jobs, strings.Join(got, "\n"), strings.Join(want, "\n"))
 		}
 		if fmt.Sprint(skips) != fmt.Sprint(wantSkips) {
-			t.Errorf("%d jobs: skips\n%v\nWalk:\n%v", jobs, skips, wantSkips)
+			t.Errorf("%s, %d jobs: skips\n%v\nWalk:\n%v", run.name, jobs, skips, wantSkips)
 		}
 	}
 	if len(want) < 6 || len(wantSkips) < 8 {

@@ -112,9 +112,9 @@ func main() {
 		phaseStart = start
 		var res *result
 		if *collector == "maps" {
-			res, err = ingestMaps(root.FS(), opts, *jobs, *minhash)
+			res, err = ingestMaps(corpus.RootFS(root), opts, *jobs, *minhash)
 		} else {
-			res, err = ingestIDs(root.FS(), opts, *jobs, *minhash)
+			res, err = ingestIDs(corpus.RootFS(root), opts, *jobs, *minhash)
 		}
 		if err != nil {
 			fmt.Fprintln(os.Stderr, err)

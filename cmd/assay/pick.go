@@ -316,7 +316,7 @@ func openFolder(dir string) (fs.FS, error) {
 	if err != nil {
 		return nil, fmt.Errorf("open folder: %w", err)
 	}
-	return root.FS(), nil
+	return corpus.RootFS(root), nil
 }
 
 // runPick reads the corpus, picks and writes the report.

@@ -1,0 +1,5 @@
+//go:build !linux
+
+package corpus
+
+func (r *rootFS) newFileReader() fileReader { return nil }
