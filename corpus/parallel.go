@@ -39,8 +39,8 @@ func WalkParallel[R any](fsys fs.FS, opts Options, jobs int, newWorker func() fu
 		rs    []R
 		skips []Skip
 	}
-	tasks := make(chan task, jobs)
-	results := make(chan result, jobs)
+	tasks := make(chan task, 4*jobs)
+	results := make(chan result, 4*jobs)
 	inFlight := make(chan struct{}, 4*jobs)
 	done := make(chan struct{})
 	var rootErr error
