@@ -179,13 +179,33 @@ func (b *Builder) decodeRow(i int, buf []entry) []entry {
 	slab := b.slabs[b.rowAt[i]>>32]
 	p := int(uint32(b.rowAt[i]))
 	for range b.rowLen[i] {
-		id, n := binary.Uvarint(slab[p:])
-		p += n
-		c, n := binary.Uvarint(slab[p:])
-		p += n
+		var id, c uint64
+		id, p = uvarint(slab, p)
+		c, p = uvarint(slab, p)
 		buf = append(buf, entry{int32(id), int32(c) + 1})
 	}
 	return buf
+}
+
+// uvarint decodes the unsigned varint at b[p:] (written by appendEntry,
+// so valid and at most 5 bytes) and returns it and the offset after it:
+// binary.Uvarint's result, with the one-, two- and three-byte values
+// (every count and the IDs of up to 2^21 terms) decoded without a loop.
+func uvarint(b []byte, p int) (uint64, int) {
+	x := uint64(b[p])
+	if x < 0x80 {
+		return x, p + 1
+	}
+	y := uint64(b[p+1])
+	if y < 0x80 {
+		return x&0x7f | y<<7, p + 2
+	}
+	z := uint64(b[p+2])
+	if z < 0x80 {
+		return x&0x7f | (y&0x7f)<<7 | z<<14, p + 3
+	}
+	v, n := binary.Uvarint(b[p:])
+	return v, p + n
 }
 
 // buildBlockRows is the number of rows a goroutine of Build takes at a

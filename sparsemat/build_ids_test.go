@@ -1,6 +1,7 @@
 package sparsemat
 
 import (
+	"encoding/binary"
 	"fmt"
 	"math/rand/v2"
 	"reflect"
@@ -196,6 +197,34 @@ func TestSortEntries(t *testing.T) {
 					t.Fatalf("idBits %d, n %d: column %d at %d, want %d", idBits, n, got[k]>>32, k, want[k]>>32)
 				}
 			}
+		}
+	}
+}
+
+// TestUvarint checks the decoder of Build against binary.Uvarint (the
+// standard library's, whose encoding appendEntry writes) on the values
+// around every length boundary of the encoding up to 2^32, and on random
+// ones, each followed by other bytes.
+func TestUvarint(t *testing.T) {
+	var vals []uint64
+	for shift := 0; shift <= 32; shift++ {
+		for _, d := range []int64{-2, -1, 0, 1} {
+			if v := int64(1)<<shift + d; v >= 0 && v < 1<<32 {
+				vals = append(vals, uint64(v))
+			}
+		}
+	}
+	r := rand.New(rand.NewPCG(9, 10))
+	for range 10000 {
+		vals = append(vals, uint64(r.Uint32()>>r.UintN(32)))
+	}
+	for _, v := range vals {
+		b := binary.AppendUvarint(nil, v)
+		b = append(b, 0xff, 0x01, 0x7f)
+		want, n := binary.Uvarint(b)
+		got, p := uvarint(b, 0)
+		if got != want || p != n {
+			t.Fatalf("uvarint(%x) = %d, %d; binary.Uvarint %d, %d", b, got, p, want, n)
 		}
 	}
 }
