@@ -1,8 +1,10 @@
 package corpus
 
 import (
+	"encoding/binary"
 	"io/fs"
 	"path"
+	"slices"
 	"strings"
 	"syscall"
 )
@@ -129,6 +131,97 @@ func fstat(fd int, st *syscall.Stat_t) error {
 func readFD(fd int, b []byte) (int, error) {
 	for {
 		n, err := syscall.Read(fd, b)
+		if err != syscall.EINTR {
+			return n, err
+		}
+	}
+}
+
+// readDirFast lists the folder name (a path of the walk) from its
+// entries' records (getdents64), with the type each record holds. ok is
+// false when anything fails, or when a record's type is unknown (a file
+// system that does not keep types): the caller then takes root.FS's
+// path.
+func (r *rootFS) readDirFast(name string) ([]fs.DirEntry, bool) {
+	if !fs.ValidPath(name) {
+		return nil, false
+	}
+	rd, ok := r.newFileReader().(*dirReader)
+	if !ok {
+		return nil, false
+	}
+	defer rd.close()
+	if !rd.openDir(name) {
+		return nil, false
+	}
+	var entries []fs.DirEntry
+	buf := make([]byte, 32<<10)
+	for {
+		n, err := getdents(rd.dirFD, buf)
+		if err != nil || n < 0 {
+			return nil, false
+		}
+		if n == 0 {
+			break
+		}
+		for rec := buf[:n]; len(rec) > 0; {
+			// struct linux_dirent64: ino u64, off s64, reclen u16, type u8, name (NUL-ended)
+			if len(rec) < 19 {
+				return nil, false
+			}
+			reclen := int(binary.NativeEndian.Uint16(rec[16:18]))
+			if reclen < 19 || reclen > len(rec) {
+				return nil, false
+			}
+			dtype, nameBytes := rec[18], rec[19:reclen]
+			if i := slices.Index(nameBytes, 0); i >= 0 {
+				nameBytes = nameBytes[:i]
+			}
+			rec = rec[reclen:]
+			entry := string(nameBytes)
+			if entry == "." || entry == ".." {
+				continue
+			}
+			typ, ok := direntType(dtype)
+			if !ok {
+				return nil, false // a file system that does not say: root.FS looks each entry up
+			}
+			p := entry
+			if name != "." {
+				p = name + "/" + entry
+			}
+			entries = append(entries, &rootEntry{root: r.root, path: p, name: entry, typ: typ})
+		}
+	}
+	slices.SortFunc(entries, func(a, b fs.DirEntry) int { return strings.Compare(a.Name(), b.Name()) })
+	return entries, true
+}
+
+// direntType is the file type of a record's d_type; ok is false for
+// DT_UNKNOWN (or anything else).
+func direntType(t byte) (fs.FileMode, bool) {
+	switch t {
+	case syscall.DT_REG:
+		return 0, true
+	case syscall.DT_DIR:
+		return fs.ModeDir, true
+	case syscall.DT_LNK:
+		return fs.ModeSymlink, true
+	case syscall.DT_FIFO:
+		return fs.ModeNamedPipe, true
+	case syscall.DT_SOCK:
+		return fs.ModeSocket, true
+	case syscall.DT_CHR:
+		return fs.ModeDevice | fs.ModeCharDevice, true
+	case syscall.DT_BLK:
+		return fs.ModeDevice, true
+	}
+	return 0, false
+}
+
+func getdents(fd int, buf []byte) (int, error) {
+	for {
+		n, err := syscall.Getdents(fd, buf)
 		if err != syscall.EINTR {
 			return n, err
 		}

@@ -1,6 +1,8 @@
 package corpus
 
 import (
+	"fmt"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"syscall"
@@ -74,6 +76,74 @@ func TestDirReader(t *testing.T) {
 		raw, ok := fr.read(tt.path, 12)
 		if ok != tt.ok || string(raw) != tt.want {
 			t.Errorf("read(%q) = %q, %v; want %q, %v", tt.path, raw, ok, tt.want, tt.ok)
+		}
+	}
+}
+
+// TestRootFSReadDir compares the folder listings of RootFS (read from the
+// folders' records) with root.FS's on a fixture of files, folders, links
+// and a named pipe: the same names in the same order, the same types, the
+// same Info. The records' path must be the one taken (readDirFast ok), or
+// the comparison would test root.FS against itself.
+func TestRootFSReadDir(t *testing.T) {
+	dir := t.TempDir()
+	for _, p := range []string{"b.txt", "a/one.txt", "a/b/deep.txt", "c/x.md", "Z.txt", "a/.hidden"} {
+		p = filepath.Join(dir, p)
+		if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(p, []byte("text of "+p), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := os.Symlink("one.txt", filepath.Join(dir, "a", "link.txt")); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.Symlink("a", filepath.Join(dir, "alink")); err != nil {
+		t.Fatal(err)
+	}
+	if err := syscall.Mkfifo(filepath.Join(dir, "a", "pipe"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	root, err := os.OpenRoot(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer root.Close()
+	fast := RootFS(root).(*rootFS)
+	for _, name := range []string{".", "a", "a/b", "c"} {
+		got, ok := fast.readDirFast(name)
+		if !ok {
+			t.Fatalf("readDirFast(%q) not ok", name)
+		}
+		want, err := fs.ReadDir(root.FS(), name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(got) != len(want) {
+			t.Fatalf("%s: %d entries, root.FS %d", name, len(got), len(want))
+		}
+		for i := range got {
+			g, w := got[i], want[i]
+			gi, gerr := g.Info()
+			wi, werr := w.Info()
+			if gerr != nil || werr != nil {
+				t.Fatalf("%s/%s: Info errors %v, %v", name, g.Name(), gerr, werr)
+			}
+			if g.Name() != w.Name() || g.Type() != w.Type() || g.IsDir() != w.IsDir() ||
+				gi.Mode() != wi.Mode() || gi.Size() != wi.Size() || gi.Name() != wi.Name() {
+				t.Errorf("%s entry %d: %v (%v), root.FS %v (%v)", name, i, g, gi.Mode(), w, wi.Mode())
+			}
+		}
+	}
+	for _, name := range []string{"missing", "alink", "b.txt", "../x", "/a"} {
+		if _, ok := fast.readDirFast(name); ok {
+			t.Errorf("readDirFast(%q) ok, want the usual path", name)
+		}
+		_, gerr := fast.ReadDir(name)
+		_, werr := fs.ReadDir(root.FS(), name)
+		if fmt.Sprint(gerr) != fmt.Sprint(werr) {
+			t.Errorf("ReadDir(%q): error %v, root.FS %v", name, gerr, werr)
 		}
 	}
 }
