@@ -284,16 +284,29 @@ func (a *Analyzer) AnalyzeIDs(text string, ids []int32) ([]int32, Language) {
 	}
 	doc := a.lookUp(text)
 	docScript := langTable[doc].script
+	slots := a.words.slots
 	for k, si := range a.at {
-		if sc := a.sc[k]; sc == scriptGram {
+		sc := a.sc[k]
+		if sc == scriptGram {
 			if e := &a.entries[si]; e.term != "" {
 				ids = a.countEntry(ids, e)
 			}
-		} else if sc == docScript {
-			ids = a.countWord(ids, si, doc)
-		} else {
-			ids = a.countWord(ids, si, idxUnd) // a number, or a word in another script
+			continue
 		}
+		li := doc
+		if sc != docScript {
+			li = idxUnd // a number, or a word in another script
+		}
+		// The common case inline: the slot's own analysis, its term ID
+		// known (or the token known to be dropped).
+		if s := &slots[si]; int(s.lang) == li && s.id != idUnknown {
+			if s.id >= 0 {
+				s.n++
+				ids = append(ids, s.id)
+			}
+			continue
+		}
+		ids = a.countWord(ids, si, li)
 	}
 	return ids, langTable[doc].lang
 }

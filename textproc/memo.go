@@ -134,13 +134,17 @@ func (t *wordTable) find(tok []byte, h uint64, toks []tokMemo) (int, bool) {
 			}
 		}
 	}
+	// A long token: its first wKey bytes are in the slot, with klen
+	// wLong; the rest is compared with the memo record's copy.
+	x, y := headWords(tok[:wKey])
+	y |= wLong << 24
 	for i := h & mask; ; i = (i + 1) & mask {
 		s := &t.slots[i]
-		switch {
-		case s.klen == 0:
+		if s.klen == 0 {
 			return int(i), false
-		case s.klen == wLong:
-			if string(s.key[:]) == string(tok[:wKey]) && toks[s.ti].key == string(tok) {
+		}
+		if sx, sy := s.head(); sx == x && sy == y {
+			if key := toks[s.ti].key; len(key) == len(tok) && key[wKey:] == string(tok[wKey:]) {
 				return int(i), true
 			}
 		}
