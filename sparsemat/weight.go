@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"github.com/james-bowman/sparse"
+	"github.com/james-bowman/sparse/blas"
 )
 
 // TF is the term-frequency part of a weighting.
@@ -94,37 +95,47 @@ func Weight(c *Counts, w Weighting) *sparse.CSR {
 	raw := c.Matrix.RawMatrix()
 	idf := IDFValues(c, w.IDF)
 	data := make([]float64, len(raw.Data))
-	for i := 0; i < raw.I; i++ {
-		lo, hi := raw.Indptr[i], raw.Indptr[i+1]
-		for k := lo; k < hi; k++ {
-			tf := raw.Data[k]
-			switch w.TF {
-			case TFLog:
-				tf = 1 + math.Log(tf)
-			case TFBinary:
-				tf = 1
-			}
-			data[k] = tf * idf[raw.Ind[k]]
+	// Each row is weighted on its own, so the rows are shared out in
+	// blocks over the cores; the bits do not depend on the split.
+	const blockRows = 4096
+	parallelBlocks((raw.I+blockRows-1)/blockRows, func(b int) {
+		for i := b * blockRows; i < min((b+1)*blockRows, raw.I); i++ {
+			weightRow(raw, idf, w, data, i)
 		}
-		var s float64
-		switch w.Norm {
-		case NormL2:
-			for _, v := range data[lo:hi] {
-				s += v * v
-			}
-			s = math.Sqrt(s)
-		case NormL1:
-			for _, v := range data[lo:hi] {
-				s += math.Abs(v)
-			}
-		}
-		if s > 0 {
-			for k := lo; k < hi; k++ {
-				data[k] /= s
-			}
-		}
-	}
+	})
 	ia := append([]int(nil), raw.Indptr...)
 	ja := append([]int(nil), raw.Ind...)
 	return sparse.NewCSR(raw.I, raw.J, ia, ja, data)
+}
+
+// weightRow writes the weights of row i of raw into data.
+func weightRow(raw *blas.SparseMatrix, idf []float64, w Weighting, data []float64, i int) {
+	lo, hi := raw.Indptr[i], raw.Indptr[i+1]
+	for k := lo; k < hi; k++ {
+		tf := raw.Data[k]
+		switch w.TF {
+		case TFLog:
+			tf = 1 + math.Log(tf)
+		case TFBinary:
+			tf = 1
+		}
+		data[k] = tf * idf[raw.Ind[k]]
+	}
+	var s float64
+	switch w.Norm {
+	case NormL2:
+		for _, v := range data[lo:hi] {
+			s += v * v
+		}
+		s = math.Sqrt(s)
+	case NormL1:
+		for _, v := range data[lo:hi] {
+			s += math.Abs(v)
+		}
+	}
+	if s > 0 {
+		for k := lo; k < hi; k++ {
+			data[k] /= s
+		}
+	}
 }

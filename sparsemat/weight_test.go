@@ -2,8 +2,12 @@ package sparsemat
 
 import (
 	"encoding/json"
+	"fmt"
 	"math"
+	"math/rand/v2"
 	"os"
+	"runtime"
+	"slices"
 	"strings"
 	"testing"
 )
@@ -124,6 +128,49 @@ func TestWeightingValidate(t *testing.T) {
 	for _, w := range bad {
 		if err := w.Validate(); err == nil {
 			t.Errorf("%v: no error", w)
+		}
+	}
+}
+
+// TestWeightBlocksSameBits weights a matrix of several blocks of rows with
+// one goroutine and with eight: the rows are weighted on their own, so the
+// bits must be the same (the determinism rule of the package), and each
+// row must be the serial formula's (tf·idf, then the L2 norm).
+func TestWeightBlocksSameBits(t *testing.T) {
+	var b Builder
+	r := rand.New(rand.NewPCG(13, 14))
+	for range 10000 {
+		row := map[string]int{}
+		for range 1 + r.IntN(12) {
+			row[fmt.Sprintf("t%d", r.IntN(400))] = 1 + r.IntN(5)
+		}
+		b.AddRow(row)
+	}
+	c, err := b.Build(Pruning{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	plainWeighting := Weighting{TF: TFRaw, IDF: IDFSmooth, Norm: NormL2}
+	defer runtime.GOMAXPROCS(runtime.GOMAXPROCS(1))
+	one := Weight(c, plainWeighting).RawMatrix().Data
+	runtime.GOMAXPROCS(8)
+	eight := Weight(c, plainWeighting).RawMatrix().Data
+	if !slices.Equal(one, eight) {
+		t.Fatal("GOMAXPROCS 1 and 8 weigh differently")
+	}
+	raw := c.Matrix.RawMatrix()
+	idf := IDFValues(c, plainWeighting.IDF)
+	for _, i := range []int{0, 4095, 4096, 9999 - len(c.EmptyRows)} {
+		lo, hi := raw.Indptr[i], raw.Indptr[i+1]
+		var s float64
+		for k := lo; k < hi; k++ {
+			v := raw.Data[k] * idf[raw.Ind[k]]
+			s += v * v
+		}
+		for k := lo; k < hi; k++ {
+			if want := raw.Data[k] * idf[raw.Ind[k]] / math.Sqrt(s); one[k] != want {
+				t.Fatalf("row %d entry %d: %g, want %g", i, k, one[k], want)
+			}
 		}
 	}
 }
