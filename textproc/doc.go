@@ -126,13 +126,16 @@
 //
 // The analyzer keeps the result of every distinct token (the memo), so
 // that after the first sight a token costs one look-up in a hash table
-// whose slots hold short tokens and their analysis in place. ASCII text
-// skips NFC and case folding (the tokenizer lower-cases ASCII letters,
-// which is all that folding does to them), and mostly-ASCII text sends
-// only the stretches around its other characters through them; the
-// package's tests check that both give exactly the tokens of the full
-// normalisation, and that the memo gives exactly the terms of
-// [Options.NoMemo].
+// whose slots hold short tokens and their analysis in place. The look-ups
+// of a document are made in two passes: a tight one that compares each
+// short token with the slot its hash points to, so that the waits for
+// slots out of the cache overlap, then the full search for the rest. ASCII
+// text skips NFC and case folding (the tokenizer lower-cases ASCII
+// letters, which is all that folding does to them, eight bytes at a
+// time), and mostly-ASCII text sends only the stretches around its other
+// characters through them; the package's tests check that both give
+// exactly the tokens of the full normalisation (and of a byte-at-a-time
+// scan), and that the memo gives exactly the terms of [Options.NoMemo].
 //
 // # Concurrency
 //
