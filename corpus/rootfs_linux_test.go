@@ -17,37 +17,10 @@ import (
 // path that is not a clean path of the walk. Common practice, no outside
 // source.
 func TestDirReader(t *testing.T) {
-	dir := t.TempDir()
-	write := func(p, data string) {
-		t.Helper()
-		p = filepath.Join(dir, p)
-		if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
-			t.Fatal(err)
-		}
-		if err := os.WriteFile(p, []byte(data), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	write("top.txt", "at the root")
-	write("a/one.txt", "first")
-	write("a/two.txt", "second")
-	write("a/b/deep.txt", "nested")
-	write("a/empty.txt", "")
-	write("a/big.txt", "0123456789abcdef")
-	if err := os.Symlink("one.txt", filepath.Join(dir, "a", "link.txt")); err != nil {
-		t.Fatal(err)
-	}
-	if err := os.Symlink("a", filepath.Join(dir, "alink")); err != nil {
-		t.Fatal(err)
-	}
-	if err := syscall.Mkfifo(filepath.Join(dir, "a", "pipe.txt"), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	root, err := os.OpenRoot(dir)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer root.Close()
+	root := linkFixture(t, map[string]string{
+		"top.txt": "at the root", "a/one.txt": "first", "a/two.txt": "second",
+		"a/b/deep.txt": "nested", "a/empty.txt": "", "a/big.txt": "0123456789abcdef",
+	})
 	fr := RootFS(root).(fileReaderFS).newFileReader()
 	if fr == nil {
 		t.Fatal("no reader")
@@ -86,30 +59,11 @@ func TestDirReader(t *testing.T) {
 // same Info. The records' path must be the one taken (readDirFast ok), or
 // the comparison would test root.FS against itself.
 func TestRootFSReadDir(t *testing.T) {
-	dir := t.TempDir()
+	files := map[string]string{}
 	for _, p := range []string{"b.txt", "a/one.txt", "a/b/deep.txt", "c/x.md", "Z.txt", "a/.hidden"} {
-		p = filepath.Join(dir, p)
-		if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
-			t.Fatal(err)
-		}
-		if err := os.WriteFile(p, []byte("text of "+p), 0o644); err != nil {
-			t.Fatal(err)
-		}
+		files[p] = "text of " + p
 	}
-	if err := os.Symlink("one.txt", filepath.Join(dir, "a", "link.txt")); err != nil {
-		t.Fatal(err)
-	}
-	if err := os.Symlink("a", filepath.Join(dir, "alink")); err != nil {
-		t.Fatal(err)
-	}
-	if err := syscall.Mkfifo(filepath.Join(dir, "a", "pipe"), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	root, err := os.OpenRoot(dir)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer root.Close()
+	root := linkFixture(t, files)
 	fast := RootFS(root).(*rootFS)
 	for _, name := range []string{".", "a", "a/b", "c"} {
 		got, ok := fast.readDirFast(name)
@@ -146,4 +100,36 @@ func TestRootFSReadDir(t *testing.T) {
 			t.Errorf("ReadDir(%q): error %v, root.FS %v", name, gerr, werr)
 		}
 	}
+}
+
+// linkFixture writes files (path → content) into a new folder, adds the
+// links a/link.txt → one.txt and alink → a and the named pipe
+// a/pipe.txt, and opens the folder as a root, closed with the test.
+func linkFixture(t *testing.T, files map[string]string) *os.Root {
+	t.Helper()
+	dir := t.TempDir()
+	for p, data := range files {
+		p = filepath.Join(dir, p)
+		if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(p, []byte(data), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := os.Symlink("one.txt", filepath.Join(dir, "a", "link.txt")); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.Symlink("a", filepath.Join(dir, "alink")); err != nil {
+		t.Fatal(err)
+	}
+	if err := syscall.Mkfifo(filepath.Join(dir, "a", "pipe.txt"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	root, err := os.OpenRoot(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { root.Close() })
+	return root
 }
