@@ -4,6 +4,7 @@ import (
 	"encoding/binary"
 	"errors"
 	"fmt"
+	"hash/maphash"
 	"math/bits"
 	"runtime"
 	"slices"
@@ -24,33 +25,48 @@ var ErrNoTerms = errors.New("no terms left after pruning")
 // scheduling; the matrix that [Builder.Build] makes does not, because it
 // orders the columns by term.
 type Vocabulary struct {
-	mu    sync.Mutex
-	ids   map[string]int32
+	mu    sync.Mutex // guards terms
 	terms []string
+	// The IDs by term, split by a hash of the term so that goroutines
+	// asking for different terms rarely wait for each other; a new term
+	// takes its shard's lock, then mu.
+	shards [vocabShards]vocabShard
 }
+
+const vocabShards = 32
+
+type vocabShard struct {
+	mu  sync.Mutex
+	ids map[string]int32
+	_   [48]byte // a cache line to each shard's lock
+}
+
+// vocabSeed seeds the hash that picks a term's shard (which changes how
+// the work is shared out, never the IDs).
+var vocabSeed = maphash.MakeSeed()
 
 // ID returns the ID of term, giving it the next free one the first time.
 // The string is kept, not copied.
 func (v *Vocabulary) ID(term string) int32 {
-	v.mu.Lock()
-	id := v.idLocked(term)
-	v.mu.Unlock()
-	return id
-}
-
-func (v *Vocabulary) idLocked(term string) int32 {
-	id, ok := v.ids[term]
+	sh := &v.shards[maphash.String(vocabSeed, term)%vocabShards]
+	sh.mu.Lock()
+	id, ok := sh.ids[term]
 	if !ok {
-		if v.ids == nil {
-			v.ids = make(map[string]int32)
-		}
+		v.mu.Lock()
 		if len(v.terms) == 1<<31-1 {
+			v.mu.Unlock()
+			sh.mu.Unlock()
 			panic("sparsemat: more than 2³¹−1 terms")
 		}
 		id = int32(len(v.terms))
-		v.ids[term] = id
 		v.terms = append(v.terms, term)
+		v.mu.Unlock()
+		if sh.ids == nil {
+			sh.ids = make(map[string]int32)
+		}
+		sh.ids[term] = id
 	}
+	sh.mu.Unlock()
 	return id
 }
 
@@ -104,13 +120,11 @@ func (b *Builder) Vocabulary() *Vocabulary { return &b.vocab }
 // are ignored.
 func (b *Builder) AddRow(counts map[string]int) {
 	b.ent = b.ent[:0]
-	b.vocab.mu.Lock()
 	for t, c := range counts {
 		if c > 0 {
-			b.ent = append(b.ent, entry{b.vocab.idLocked(t), int32(min(c, 1<<31-1))})
+			b.ent = append(b.ent, entry{b.vocab.ID(t), int32(min(c, 1<<31-1))})
 		}
 	}
-	b.vocab.mu.Unlock()
 	dst := b.reserve(len(b.ent))
 	for _, e := range b.ent {
 		dst = appendEntry(dst, e.id, e.count)

@@ -130,7 +130,8 @@ func TestAddRowIDsPanics(t *testing.T) {
 }
 
 // Goroutines may ask for IDs at the same time (run with -race); every
-// term gets one ID, and distinct terms distinct IDs.
+// term gets one ID, distinct terms distinct IDs, and Term gives each ID's
+// term back.
 func TestVocabularyConcurrent(t *testing.T) {
 	var v Vocabulary
 	var wg sync.WaitGroup
@@ -148,8 +149,12 @@ func TestVocabularyConcurrent(t *testing.T) {
 	}
 	for g := range got {
 		for j, id := range got[g] {
-			if want := v.ID(fmt.Sprint((j*7 + g*13) % 1000)); id != want {
+			term := fmt.Sprint((j*7 + g*13) % 1000)
+			if want := v.ID(term); id != want {
 				t.Fatalf("term %d: ID %d, then %d", j, id, want)
+			}
+			if v.Term(id) != term {
+				t.Fatalf("ID %d is %q, want %q", id, v.Term(id), term)
 			}
 		}
 	}
