@@ -5,6 +5,8 @@ import (
 	"errors"
 	"fmt"
 	"io/fs"
+	"runtime/debug"
+	"runtime/metrics"
 	"sync"
 
 	"assay/corpus"
@@ -110,10 +112,13 @@ func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, erro
 			return r
 		}
 	}
+	floor := startGCFloor()
+	defer floor.stop()
 	skips, err := corpus.WalkParallel(fsys, readOpts, opts.Jobs, newWorker, func(d corpus.Document, r rowResult) error {
 		if err := ctx.Err(); err != nil {
 			return err
 		}
+		floor.check()
 		col.b.AddCounted(r.row)
 		col.record(d, r.lang, r.sig)
 		return nil
@@ -126,6 +131,57 @@ func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, erro
 	}
 	analyzers = nil // the memos can go before the matrix is built
 	return col.finish(skips, col.fp.String())
+}
+
+// The collector's GOGC while the live heap of a read is small: a read
+// starts from an empty heap, and at the default of 100 the collector runs
+// over and over while the memos and rows grow. Measured (assay pick
+// --lang english --near-dup off, timings.read, 4 interleaved runs,
+// medians): generated 10,000 documents 0.78 → 0.73 s, SpamAssassin 0.645
+// → 0.597 s, generated 100,000 4.07 → 3.89 s; peak resident memory of the
+// whole pick up by 5–7% (15 MiB, 10 MiB, 57 MiB). Once the live heap (as
+// the last collection measured it) passes gcFloorBytes the default comes
+// back, so a large read's heap grows as it did.
+const (
+	gcFloorPercent = 300
+	gcFloorBytes   = 64 << 20
+	gcFloorEvery   = 256 // documents between two looks at the heap
+)
+
+// gcFloor raises GOGC for the start of a read; see gcFloorPercent.
+type gcFloor struct {
+	prev   int // GOGC before, restored by stop
+	n      int
+	done   bool
+	sample []metrics.Sample
+}
+
+func startGCFloor() *gcFloor {
+	return &gcFloor{prev: debug.SetGCPercent(gcFloorPercent), sample: []metrics.Sample{{Name: "/gc/heap/live:bytes"}}}
+}
+
+// check looks at the live heap every gcFloorEvery documents and gives the
+// collector its GOGC back once the heap is past the floor.
+func (f *gcFloor) check() {
+	if f.done {
+		return
+	}
+	if f.n++; f.n%gcFloorEvery != 0 {
+		return
+	}
+	metrics.Read(f.sample)
+	if s := f.sample[0]; s.Value.Kind() == metrics.KindUint64 && s.Value.Uint64() < gcFloorBytes {
+		return
+	}
+	debug.SetGCPercent(f.prev)
+	f.done = true
+}
+
+func (f *gcFloor) stop() {
+	if !f.done {
+		debug.SetGCPercent(f.prev)
+		f.done = true
+	}
 }
 
 // rowResult is what a worker of analyze found in one document.
