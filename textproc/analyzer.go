@@ -125,7 +125,7 @@ func (a *Analyzer) Normalize(text string) string {
 func (a *Analyzer) tokenize(text string) {
 	a.tok.reset()
 	a.tok.run(a.normalized(text))
-	a.tok.arena = slices.Grow(a.tok.arena, 12) // room for probe's loads
+	a.tok.arena = slices.Grow(a.tok.arena, headBytes) // room for probe's loads
 }
 
 // normalized returns text normalised for a tokenizer that lower-cases
@@ -478,7 +478,7 @@ func (a *Analyzer) probe() {
 	refs := a.tok.refs
 	a.at = slices.Grow(a.at[:0], len(refs))[:len(refs)]
 	a.sc = slices.Grow(a.sc[:0], len(refs))[:len(refs)]
-	arena := a.tok.arena[:cap(a.tok.arena)] // tokenize leaves 12 bytes of room
+	arena := a.tok.arena[:cap(a.tok.arena)] // tokenize leaves headBytes of room
 	slots := a.words.slots
 	mask := uint64(len(slots) - 1)
 	for k, ref := range refs {
@@ -490,7 +490,7 @@ func (a *Analyzer) probe() {
 		n := ref.end - ref.start
 		si := int32(-1)
 		if n <= wKey {
-			x, y := paddedWords(arena[ref.start:ref.start+12], n)
+			x, y := paddedWords(arena[ref.start:ref.start+headBytes], n)
 			i := hashHead(x, y, n) & mask
 			if sx, sy := slots[i].head(); sx == x && sy == y|uint32(n)<<24 {
 				si = int32(i)

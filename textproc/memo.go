@@ -26,6 +26,12 @@ type wordTable struct {
 // the memo record's copy (tokMemo.key).
 const wKey = 11
 
+// headBytes is how many bytes paddedWords loads: a token's first wKey
+// bytes and one more. Analyzer.tokenize leaves that much room after the
+// last token of its arena, so that the probe can load any token's head
+// words in place.
+const headBytes = wKey + 1
+
 // Special values of wslot fields.
 const (
 	wLong      = 255 // klen of a token longer than wKey
@@ -91,13 +97,13 @@ func hashHead(x uint64, y uint32, n int) uint64 {
 // wslot.head reads the same words from a slot that holds b, with the
 // token's length in the top byte of the second.
 func headWords(b []byte) (x uint64, y uint32) {
-	var p [16]byte
+	var p [headBytes]byte
 	copy(p[:], b)
 	return paddedWords(p[:], len(b))
 }
 
 // paddedWords returns headWords(p[:n]) for an n <= wKey and a p of at
-// least 12 bytes, of which the bytes from n on are ignored.
+// least headBytes bytes, of which the bytes from n on are ignored.
 func paddedWords(p []byte, n int) (x uint64, y uint32) {
 	x = binary.LittleEndian.Uint64(p)
 	y = binary.LittleEndian.Uint32(p[8:])

@@ -24,7 +24,7 @@ func TestPaddedWordsMatchHeadWords(t *testing.T) {
 		n := 1 + trial%wKey
 		tok := append([]byte(nil), buf[:n]...)
 		x, y := headWords(tok)
-		px, py := paddedWords(buf[:12], n)
+		px, py := paddedWords(buf[:headBytes], n)
 		if x != px || y != py {
 			t.Fatalf("length %d: paddedWords %x %x, headWords %x %x", n, px, py, x, y)
 		}
