@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"strings"
 
-	"github.com/kljensen/snowball/english"
 	"github.com/kljensen/snowball/french"
 	"github.com/kljensen/snowball/hungarian"
 	"github.com/kljensen/snowball/norwegian"
@@ -210,7 +209,7 @@ var (
 
 func init() {
 	langTable = [numLangs]langInfo{
-		idxEnglish:   {lang: English, code: "en", script: scriptLatin, stem: stemWith(english.Stem), stop: englishStopWords, poss: true},
+		idxEnglish:   {lang: English, code: "en", script: scriptLatin, stem: stemEnglish, stop: englishStopWords, poss: true},
 		idxFrench:    {lang: French, code: "fr", script: scriptLatin, stem: stemWith(french.Stem), stop: frenchStopWords, strip: frenchElide},
 		idxSpanish:   {lang: Spanish, code: "es", script: scriptLatin, stem: stemWith(spanish.Stem), stop: spanishStopWords},
 		idxRussian:   {lang: Russian, code: "ru", script: scriptCyrillic, stem: stemWith(russian.Stem), stop: russianStopWords, prep: russianYo},

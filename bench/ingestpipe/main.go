@@ -243,6 +243,7 @@ func ingestIDs(fsys fs.FS, opts textproc.Options, jobs int, minhash bool) (*resu
 		az.AddFormsTo(res.display)
 	}
 	analyzers = nil
+	phase("forms counted")
 	if freeOS {
 		t := time.Now()
 		debug.FreeOSMemory()
