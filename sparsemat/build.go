@@ -279,6 +279,8 @@ type Counts struct {
 	// EmptyRows lists the added documents (by index) that kept no term
 	// and so have no row.
 	EmptyRows []int
+	// IDs is the Vocabulary ID of each kept term, in column order.
+	IDs []int32
 	// VocabularySize is the number of distinct terms before pruning.
 	VocabularySize int
 	// Documents is the number of documents added, with or without a row.
@@ -357,6 +359,7 @@ func (b *Builder) Build(p Pruning) (*Counts, error) {
 	c := &Counts{
 		Terms:          make([]string, len(keep)),
 		DF:             make([]int, len(keep)),
+		IDs:            make([]int32, len(keep)),
 		VocabularySize: vocabSize,
 		Documents:      m,
 	}
@@ -364,6 +367,7 @@ func (b *Builder) Build(p Pruning) (*Counts, error) {
 	for j, k := range keep {
 		newID[k.id] = int32(j)
 		c.Terms[j] = k.term
+		c.IDs[j] = k.id
 		c.DF[j] = int(df[k.id])
 		nnz += int(df[k.id])
 	}

@@ -30,6 +30,14 @@ func TestBuildPrunesAndOrders(t *testing.T) {
 	if want := []int{2, 2}; !slices.Equal(c.DF, want) {
 		t.Fatalf("df %v, want %v", c.DF, want)
 	}
+	for j, id := range c.IDs {
+		if got := b.Vocabulary().Term(id); got != c.Terms[j] {
+			t.Fatalf("IDs[%d] = %d, the vocabulary's %q, want the ID of %q", j, id, got, c.Terms[j])
+		}
+	}
+	if len(c.IDs) != len(c.Terms) {
+		t.Fatalf("%d IDs for %d terms", len(c.IDs), len(c.Terms))
+	}
 	// Documents 0, 1 and 3 keep a term; document 2 keeps none.
 	if want := []int{0, 1, 3}; !slices.Equal(c.Rows, want) {
 		t.Fatalf("rows %v, want %v", c.Rows, want)

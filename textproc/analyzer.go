@@ -368,12 +368,7 @@ func (a *Analyzer) countEntry(ids []int32, e *memoEntry) []int32 {
 // last call, and clears the counts. The forms of several analyzers can be
 // added to one DisplayForms in any order: the counts are sums.
 func (a *Analyzer) AddFormsTo(d *DisplayForms) {
-	for i := range a.words.slots {
-		if s := &a.words.slots[i]; s.n > 0 {
-			a.entries[s.ent].n += s.n
-			s.n = 0
-		}
-	}
+	a.settleCounts()
 	for i := range a.entries {
 		e := &a.entries[i]
 		if e.n > 0 {
@@ -385,6 +380,41 @@ func (a *Analyzer) AddFormsTo(d *DisplayForms) {
 		d.AddN(f[0], f[1], n)
 	}
 	a.forms = nil
+}
+
+// AddFormsByID is AddFormsTo for a [FormsByID]: the forms are counted
+// under the numbers Options.TermID gave their terms.
+func (a *Analyzer) AddFormsByID(f *FormsByID) {
+	a.settleCounts()
+	top := int32(-1)
+	for i := range a.entries {
+		if e := &a.entries[i]; e.n > 0 {
+			top = max(top, e.id)
+		}
+	}
+	f.reserve(top)
+	for i := range a.entries {
+		e := &a.entries[i]
+		if e.n > 0 {
+			f.AddN(e.id, e.surface, int(e.n))
+			e.n = 0
+		}
+	}
+	for fm, n := range a.forms {
+		f.AddN(a.opts.TermID(fm[0]), fm[1], n)
+	}
+	a.forms = nil
+}
+
+// settleCounts moves the occurrences counted in the word slots to the
+// slots' entries.
+func (a *Analyzer) settleCounts() {
+	for i := range a.words.slots {
+		if s := &a.words.slots[i]; s.n > 0 {
+			a.entries[s.ent].n += s.n
+			s.n = 0
+		}
+	}
 }
 
 // analyzeNoMemo analyses the tokens of the current document without the

@@ -282,6 +282,80 @@ func TestAnalyzeIDsMatchesAnalyze(t *testing.T) {
 	}
 }
 
+// TestAddFormsByIDMatchesAddFormsTo checks that the forms two analyzers
+// count, summed under term IDs (AddFormsByID, then FormsByID.AddTo), are
+// those their AddFormsTo sum under the terms, with and without the memo,
+// and that AddTo keeps to the terms it is given.
+func TestAddFormsByIDMatchesAddFormsTo(t *testing.T) {
+	docs := fixtureTexts(t)
+	r := rand.New(rand.NewPCG(9, 10))
+	for range 200 {
+		docs = append(docs, randomTricky(r, 5))
+	}
+	for _, noMemo := range []bool{false, true} {
+		var terms []string
+		ids := map[string]int32{}
+		termID := func(term string) int32 {
+			id, ok := ids[term]
+			if !ok {
+				id = int32(len(terms))
+				ids[term] = id
+				terms = append(terms, term)
+			}
+			return id
+		}
+		byTerm := []*Analyzer{NewAnalyzer(Options{NoMemo: noMemo, TermID: termID}), NewAnalyzer(Options{NoMemo: noMemo, TermID: termID})}
+		byID := []*Analyzer{NewAnalyzer(Options{NoMemo: noMemo, TermID: termID}), NewAnalyzer(Options{NoMemo: noMemo, TermID: termID})}
+		var buf []int32
+		for k, d := range docs {
+			buf, _ = byTerm[k%2].AnalyzeIDs(d, buf[:0])
+			buf, _ = byID[(k/3)%2].AnalyzeIDs(d, buf[:0])
+		}
+		var want, got, some DisplayForms
+		var f FormsByID
+		for i := range 2 {
+			byTerm[i].AddFormsTo(&want)
+			byID[i].AddFormsByID(&f)
+		}
+		all := make([]int32, len(terms))
+		for i := range all {
+			all[i] = int32(i)
+		}
+		f.AddTo(&got, terms, all)
+		if got.Len() != want.Len() || got.Len() == 0 {
+			t.Fatalf("noMemo=%v: forms of %d terms, want %d", noMemo, got.Len(), want.Len())
+		}
+		for _, term := range terms {
+			if g, w := got.Forms(term), want.Forms(term); !slices.Equal(g, w) {
+				t.Fatalf("noMemo=%v: forms of %q: %v, want %v", noMemo, term, g, w)
+			}
+			if g, w := got.Form(term), want.Form(term); g != w {
+				t.Fatalf("noMemo=%v: form of %q: %q, want %q", noMemo, term, g, w)
+			}
+		}
+		// Every other term only, and added twice: counts double.
+		var half []string
+		var halfIDs []int32
+		for i := 0; i < len(terms); i += 2 {
+			half, halfIDs = append(half, terms[i]), append(halfIDs, int32(i))
+		}
+		f.AddTo(&some, half, halfIDs)
+		f.AddTo(&some, half, halfIDs)
+		if some.Len() != len(half) {
+			t.Fatalf("noMemo=%v: AddTo of %d terms gave %d", noMemo, len(half), some.Len())
+		}
+		for _, term := range half {
+			w := want.Forms(term)
+			for i := range w {
+				w[i].Count *= 2
+			}
+			if g := some.Forms(term); !slices.Equal(g, w) {
+				t.Fatalf("noMemo=%v: forms of %q added twice: %v, want %v", noMemo, term, g, w)
+			}
+		}
+	}
+}
+
 // FuzzAnalyzeFastPaths is the comparisons above on any input; its seeds
 // run with the ordinary tests.
 func FuzzAnalyzeFastPaths(f *testing.F) {

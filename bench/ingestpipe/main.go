@@ -12,9 +12,10 @@
 // textproc.Analyzer.AnalyzeIDs, whose terms are numbered by the builder's
 // shared sparsemat.Vocabulary, count the IDs with a sparsemat.RowCounter,
 // and the collector only appends the encoded row (Builder.AddCounted);
-// each analyzer keeps its own surface-form counts, added to one
-// DisplayForms after the walk (AddFormsTo; the counts are sums, so the
-// order does not matter), and the memory of the analyzers' memos is handed
+// each analyzer keeps its own surface-form counts, summed under term IDs
+// after the walk (AddFormsByID; the counts are sums, so the order does not
+// matter) and handed, for the kept terms only, to a DisplayForms once the
+// matrix is built (FormsByID.AddTo), and the memory of the analyzers' memos is handed
 // back to the system before the matrix is built (-free; debug.FreeOSMemory
 // takes about 30 ms at 100,000 documents), so that the peak is the matrix
 // and not the memos and the matrix. Set INGESTPIPE_PHASES=1 to print the
@@ -239,8 +240,9 @@ func ingestIDs(fsys fs.FS, opts textproc.Options, jobs int, minhash bool) (*resu
 		return nil, err
 	}
 	phase("walked")
+	var forms textproc.FormsByID
 	for _, az := range analyzers {
-		az.AddFormsTo(res.display)
+		az.AddFormsByID(&forms)
 	}
 	analyzers = nil
 	phase("forms counted")
@@ -251,8 +253,12 @@ func ingestIDs(fsys fs.FS, opts textproc.Options, jobs int, minhash bool) (*resu
 	}
 	res.fp = fp.String()
 	res.counts, err = b.Build(sparsemat.Pruning{MinDF: 2, MaxDFShare: 0.5})
+	if err != nil {
+		return nil, err
+	}
+	forms.AddTo(res.display, res.counts.Terms, res.counts.IDs)
 	phase("built")
-	return res, err
+	return res, nil
 }
 
 // tally adds a collected document to the result: its fingerprint, count,

@@ -127,7 +127,7 @@ func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, erro
 		return nil, fmt.Errorf("read %s: %w", opts.Source, err)
 	}
 	for _, az := range analyzers {
-		az.AddFormsTo(&col.an.display)
+		az.AddFormsByID(&col.forms)
 	}
 	analyzers = nil // the memos can go before the matrix is built
 	return col.finish(skips, col.fp.String())
@@ -226,6 +226,9 @@ type collector struct {
 	opts pickOptions
 	b    sparsemat.Builder
 	fp   corpus.Fingerprint
+	// forms are the surface forms by vocabulary ID; finish hands those of
+	// the kept terms to an.display.
+	forms textproc.FormsByID
 }
 
 // record notes what the report needs of document d, whose terms are in
@@ -262,6 +265,8 @@ func (c *collector) finish(skips []corpus.Skip, fingerprint string) (*analysis, 
 		return nil, fmt.Errorf("build matrix: %w", err)
 	}
 	an.counts = counts
+	c.forms.AddTo(&an.display, counts.Terms, counts.IDs)
+	c.forms = textproc.FormsByID{}
 	for _, i := range counts.EmptyRows {
 		an.skips = append(an.skips, corpus.Skip{Path: an.docs[i].ID, Reason: "no terms left after analysis and pruning"})
 	}
