@@ -350,7 +350,7 @@ func Title(text, fallback string) string {
 			continue
 		}
 		if len(t) > 8 && strings.EqualFold(t[:8], "subject:") && hasText(t[8:]) {
-			return cutTitle(strings.Join(strings.Fields(t[8:]), " "))
+			return titleOf(t[8:])
 		}
 		if first == "" {
 			if h := strings.TrimSpace(strings.TrimLeft(t, "#")); hasText(h) {
@@ -364,7 +364,26 @@ func Title(text, fallback string) string {
 	if first == "" {
 		return fallback
 	}
-	return cutTitle(strings.Join(strings.Fields(first), " "))
+	return titleOf(first)
+}
+
+// titleOf returns the title made of the line s: its runs of white space
+// made one space, cut by cutTitle. Only the start of s that can reach the
+// title is read: once it holds MaxTitleRunes+1 runes that are not white
+// space, the joined text is longer than a title, and its first
+// MaxTitleRunes runes are those of the whole line joined. A document that
+// is one long line would otherwise be split into all its words.
+func titleOf(s string) string {
+	n := 0
+	for i, r := range s {
+		if !unicode.IsSpace(r) {
+			if n++; n > MaxTitleRunes+1 {
+				s = s[:i]
+				break
+			}
+		}
+	}
+	return cutTitle(strings.Join(strings.Fields(s), " "))
 }
 
 func hasText(s string) bool {
