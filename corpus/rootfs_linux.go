@@ -94,19 +94,28 @@ func (r *dirReader) read(p string, limit int64) ([]byte, bool) {
 	if err := fstat(fd, &st); err != nil || st.Mode&syscall.S_IFMT != syscall.S_IFREG || st.Size <= 0 || st.Size > limit {
 		return nil, false
 	}
-	raw := make([]byte, st.Size)
-	for got := 0; got < len(raw); {
-		n, err := readFD(fd, raw[got:])
-		if err != nil || n == 0 {
-			return nil, false // shorter than its size said
+	// One byte more than the size: a read of a regular file returns less
+	// than asked only at its end, so a file that is as long as fstat
+	// said is read, and known to end there, with one system call.
+	buf := make([]byte, st.Size+1)
+	got := 0
+	for got < len(buf) {
+		n, err := readFD(fd, buf[got:])
+		if err != nil {
+			return nil, false
+		}
+		if n == 0 {
+			break
 		}
 		got += n
+		if got == int(st.Size) {
+			break // asked for one more byte than that: the end of the file
+		}
 	}
-	var probe [1]byte
-	if n, err := readFD(fd, probe[:]); n != 0 || err != nil {
-		return nil, false // longer than its size said
+	if got != int(st.Size) {
+		return nil, false // shorter or longer than its size said
 	}
-	return raw, true
+	return buf[:got:got], true
 }
 
 // openat, fstat and readFD are the system calls, retried when a signal
