@@ -110,7 +110,7 @@ func main() {
 		last = nil
 		runtime.GC()
 		start, cpu0 := time.Now(), cpuSeconds()
-		phaseStart = start
+		phaseStart, phaseCPU = start, cpu0
 		var res *result
 		if *collector == "maps" {
 			res, err = ingestMaps(corpus.RootFS(root), opts, *jobs, *minhash)
@@ -270,8 +270,12 @@ func (r *result) tally(fp *corpus.Fingerprint, d *corpus.Document, sig []uint32)
 	r.sigs = append(r.sigs, sig...)
 }
 
-// phaseStart is when the current run began, for phase.
-var phaseStart time.Time
+// phaseStart and phaseCPU are when the current run began and the CPU
+// time used before it, for phase.
+var (
+	phaseStart time.Time
+	phaseCPU   float64
+)
 
 // phase prints the resident memory and the heap at a step of the ingest,
 // when INGESTPIPE_PHASES is set.
@@ -281,7 +285,7 @@ func phase(name string) {
 	}
 	var ms runtime.MemStats
 	runtime.ReadMemStats(&ms)
-	fmt.Printf("  %s at %.3f s: resident %d MiB (peak %d MiB), heap in use %d MiB, live after last GC %d MiB\n", name, time.Since(phaseStart).Seconds(), rssKB("VmRSS")/1024, rssKB("VmHWM")/1024, ms.HeapInuse>>20, ms.HeapAlloc>>20)
+	fmt.Printf("  %s at %.3f s (CPU %.2f s): resident %d MiB (peak %d MiB), heap in use %d MiB, live after last GC %d MiB\n", name, time.Since(phaseStart).Seconds(), cpuSeconds()-phaseCPU, rssKB("VmRSS")/1024, rssKB("VmHWM")/1024, ms.HeapInuse>>20, ms.HeapAlloc>>20)
 }
 
 // checksum hashes the matrix, its terms, DF and rows, the display form
