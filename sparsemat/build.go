@@ -18,70 +18,177 @@ import (
 // ErrNoTerms is returned by [Builder.Build] when pruning leaves no term.
 var ErrNoTerms = errors.New("no terms left after pruning")
 
-// Vocabulary gives terms provisional IDs 0, 1, 2, … in the order they are
-// first asked for. It is safe for concurrent use, so that the goroutines
-// that analyse documents can turn terms into IDs themselves and hand the
-// [Builder] rows of IDs. The IDs depend on that order, and so on
-// scheduling; the matrix that [Builder.Build] makes does not, because it
-// orders the columns by term.
+// Vocabulary gives terms provisional IDs. It is safe for concurrent use,
+// so that the goroutines that analyse documents can turn terms into IDs
+// themselves and hand the [Builder] rows of IDs. The IDs depend on the
+// order terms are first asked for, and so on scheduling; the matrix that
+// [Builder.Build] makes does not, because it orders the columns by term.
+//
+// The terms are split by a hash into vocabShards shards, each with its
+// own lock, its own open-addressing table and its own run of IDs: the kth
+// term of shard s has ID k·vocabShards + s. So a new term takes no lock
+// but its shard's, and a term another goroutine has numbered is found
+// without one (the table is read with atomic loads; a miss is checked
+// again under the lock). The IDs are dense up to a few per cent: the
+// shards fill about evenly, and the first terms asked for, the frequent
+// ones, have the smallest IDs.
 type Vocabulary struct {
-	mu    sync.Mutex // guards terms
-	terms []string
-	// The IDs by term, split by a hash of the term so that goroutines
-	// asking for different terms rarely wait for each other; a new term
-	// takes its shard's lock, then mu.
 	shards [vocabShards]vocabShard
 }
 
-const vocabShards = 32
+const (
+	vocabShardBits = 5
+	vocabShards    = 1 << vocabShardBits
+)
 
 type vocabShard struct {
-	mu  sync.Mutex
-	ids map[string]int32
-	_   [48]byte // a cache line to each shard's lock
+	mu    sync.Mutex
+	tab   atomic.Pointer[vocabTable]
+	terms []string     // by index in the shard; guarded by mu
+	n     atomic.Int32 // len(terms), readable without mu
+	_     [24]byte     // a cache line to each shard
 }
 
-// vocabSeed seeds the hash that picks a term's shard (which changes how
-// the work is shared out, never the IDs).
+// vocabTable is a shard's index: linear probing, at most half full. A slot
+// is published by an atomic store of its word (the term's hash tag in the
+// high half, its index in the shard plus one in the low half) after its
+// key is written, and never changes afterwards; a larger table replaces
+// the whole table.
+type vocabTable struct {
+	words []atomic.Uint64
+	keys  []string
+}
+
+// vocabSeed seeds the hash of terms (which changes how the work is shared
+// out and the provisional IDs, never the matrix).
 var vocabSeed = maphash.MakeSeed()
 
-// ID returns the ID of term, giving it the next free one the first time.
-// The string is kept, not copied.
-func (v *Vocabulary) ID(term string) int32 {
-	sh := &v.shards[maphash.String(vocabSeed, term)%vocabShards]
-	sh.mu.Lock()
-	id, ok := sh.ids[term]
-	if !ok {
-		v.mu.Lock()
-		if len(v.terms) == 1<<31-1 {
-			v.mu.Unlock()
-			sh.mu.Unlock()
-			panic("sparsemat: more than 2³¹−1 terms")
+// vocabFirstSlots is the size of a shard's first table: 32 shards of 1024
+// slots take 768 KiB and hold 16,384 terms before the first doubling.
+const vocabFirstSlots = 1024
+
+// maxShardTerms bounds a shard so that every ID fits an int32.
+const maxShardTerms = 1<<(31-vocabShardBits) - 1
+
+// find returns the slot of a term with hash h: the slot that holds it and
+// its index in the shard, or the empty slot where it belongs and -1.
+func (t *vocabTable) find(term string, h uint64) (int, int32) {
+	mask := uint64(len(t.words) - 1)
+	tag := h >> 32
+	for i := (h >> vocabShardBits) & mask; ; i = (i + 1) & mask {
+		w := t.words[i].Load()
+		if w == 0 {
+			return int(i), -1
 		}
-		id = int32(len(v.terms))
-		v.terms = append(v.terms, term)
-		v.mu.Unlock()
-		if sh.ids == nil {
-			sh.ids = make(map[string]int32)
+		if w>>32 == tag && t.keys[i] == term {
+			return int(i), int32(uint32(w)) - 1
 		}
-		sh.ids[term] = id
 	}
-	sh.mu.Unlock()
-	return id
+}
+
+// ID returns the ID of term, giving it one the first time. The string is
+// kept, not copied.
+func (v *Vocabulary) ID(term string) int32 {
+	h := maphash.String(vocabSeed, term)
+	s := int32(h & (vocabShards - 1))
+	sh := &v.shards[s]
+	if t := sh.tab.Load(); t != nil {
+		if _, k := t.find(term, h); k >= 0 {
+			return k<<vocabShardBits | s
+		}
+	}
+	sh.mu.Lock()
+	defer sh.mu.Unlock()
+	t := sh.tab.Load()
+	if t == nil {
+		t = &vocabTable{words: make([]atomic.Uint64, vocabFirstSlots), keys: make([]string, vocabFirstSlots)}
+		sh.tab.Store(t)
+	}
+	i, k := t.find(term, h)
+	if k >= 0 {
+		return k<<vocabShardBits | s
+	}
+	if len(sh.terms) == maxShardTerms {
+		panic("sparsemat: more than 2³¹−1 terms")
+	}
+	if 2*(len(sh.terms)+1) > len(t.words) {
+		t = t.grown()
+		sh.tab.Store(t)
+		i, _ = t.find(term, h)
+	}
+	k = int32(len(sh.terms))
+	sh.terms = append(sh.terms, term)
+	sh.n.Store(int32(len(sh.terms)))
+	t.keys[i] = term
+	t.words[i].Store(h>>32<<32 | uint64(k+1))
+	return k<<vocabShardBits | s
+}
+
+// grown returns a table twice the size holding the same terms.
+func (t *vocabTable) grown() *vocabTable {
+	g := &vocabTable{words: make([]atomic.Uint64, 2*len(t.words)), keys: make([]string, 2*len(t.words))}
+	for i := range t.words {
+		if w := t.words[i].Load(); w != 0 {
+			key := t.keys[i]
+			j, _ := g.find(key, maphash.String(vocabSeed, key))
+			g.keys[j] = key
+			g.words[j].Store(w)
+		}
+	}
+	return g
+}
+
+// valid reports whether id is an ID the vocabulary gave.
+func (v *Vocabulary) valid(id int32) bool {
+	return id >= 0 && id>>vocabShardBits < v.shards[id&(vocabShards-1)].n.Load()
 }
 
 // Term returns the term with ID id. It panics if no term has that ID.
 func (v *Vocabulary) Term(id int32) string {
-	v.mu.Lock()
-	defer v.mu.Unlock()
-	return v.terms[id]
+	if id < 0 {
+		panic(fmt.Sprintf("sparsemat: no term has ID %d", id))
+	}
+	sh := &v.shards[id&(vocabShards-1)]
+	sh.mu.Lock()
+	defer sh.mu.Unlock()
+	k := int(id >> vocabShardBits)
+	if k >= len(sh.terms) {
+		panic(fmt.Sprintf("sparsemat: no term has ID %d", id))
+	}
+	return sh.terms[k]
 }
 
 // Len returns the number of terms given an ID so far.
 func (v *Vocabulary) Len() int {
-	v.mu.Lock()
-	defer v.mu.Unlock()
-	return len(v.terms)
+	n := 0
+	for i := range v.shards {
+		n += int(v.shards[i].n.Load())
+	}
+	return n
+}
+
+// byID returns every term at the index of its ID, and whether each index
+// is an ID (the few IDs between shards' runs are not).
+func (v *Vocabulary) byID() ([]string, []bool) {
+	size := 0
+	for s := range v.shards {
+		sh := &v.shards[s]
+		sh.mu.Lock()
+		if n := len(sh.terms); n > 0 {
+			size = max(size, (n-1)<<vocabShardBits|s+1)
+		}
+		sh.mu.Unlock()
+	}
+	terms, given := make([]string, size), make([]bool, size)
+	for s := range v.shards {
+		sh := &v.shards[s]
+		sh.mu.Lock()
+		for k, t := range sh.terms {
+			terms[k<<vocabShardBits|s], given[k<<vocabShardBits|s] = t, true
+		}
+		sh.mu.Unlock()
+	}
+	return terms, given
 }
 
 // Builder accumulates the term counts of documents, one row at a time.
@@ -140,14 +247,14 @@ func (b *Builder) AddRowIDs(cols, counts []int32) {
 	if len(cols) != len(counts) {
 		panic("sparsemat: AddRowIDs with columns and counts of different lengths")
 	}
-	if n := len(cols); n > 0 && int(cols[n-1]) >= b.vocab.Len() {
-		panic("sparsemat: AddRowIDs with a term ID outside the vocabulary")
-	}
 	dst := b.reserve(len(cols))
 	prev := int32(-1)
 	for k, id := range cols {
 		if id <= prev || counts[k] < 1 {
 			panic("sparsemat: AddRowIDs with columns out of order or a count below 1")
+		}
+		if !b.vocab.valid(id) {
+			panic("sparsemat: AddRowIDs with a term ID outside the vocabulary")
 		}
 		dst = appendEntry(dst, id, counts[k])
 		prev = id
@@ -156,9 +263,10 @@ func (b *Builder) AddRowIDs(cols, counts []int32) {
 }
 
 // AddCounted adds the row that a [RowCounter] made. The IDs must come
-// from the builder's [Vocabulary].
+// from the builder's [Vocabulary]: AddCounted checks the largest, Build
+// the others.
 func (b *Builder) AddCounted(r Row) {
-	if r.maxID >= 0 && int(r.maxID) >= b.vocab.Len() {
+	if r.maxID >= 0 && !b.vocab.valid(r.maxID) {
 		panic("sparsemat: AddCounted with a term ID outside the vocabulary")
 	}
 	dst := b.reserve(int(r.n))
@@ -302,9 +410,7 @@ func (b *Builder) Build(p Pruning) (*Counts, error) {
 	if p.MinDF < 0 {
 		return nil, fmt.Errorf("min-df %d is negative", p.MinDF)
 	}
-	b.vocab.mu.Lock()
-	terms := b.vocab.terms
-	b.vocab.mu.Unlock()
+	terms, given := b.vocab.byID()
 
 	// Document frequencies, from the rows themselves: each goroutine
 	// counts into its own array, and the arrays are summed.
@@ -341,7 +447,10 @@ func (b *Builder) Build(p Pruning) (*Counts, error) {
 	vocabSize := 0
 	for id, d := range df {
 		if d == 0 {
-			continue // given an ID but in no row
+			continue // given an ID but in no row, or no ID
+		}
+		if !given[id] {
+			panic("sparsemat: AddCounted with a term ID outside the vocabulary")
 		}
 		vocabSize++
 		if int(d) >= p.MinDF && int(d) <= maxDF {

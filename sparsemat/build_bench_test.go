@@ -3,6 +3,8 @@ package sparsemat
 import (
 	"fmt"
 	"math/rand/v2"
+	"slices"
+	"sync"
 	"testing"
 )
 
@@ -149,5 +151,29 @@ func BenchmarkWeight(b *testing.B) {
 	b.SetBytes(int64(8 * c.Matrix.NNZ()))
 	for b.Loop() {
 		Weight(c, DefaultWeighting)
+	}
+}
+
+// BenchmarkVocabularyID numbers 100,000 distinct terms in a new Vocabulary
+// from two goroutines at once, each asking for every term in its own
+// order, as two ingest workers do when they meet a corpus's terms: half
+// the calls add a term, half find one the other goroutine added. ns/op is
+// per call.
+func BenchmarkVocabularyID(b *testing.B) {
+	_, terms := benchRows(1, benchN, 1)
+	orders := [2][]string{slices.Clone(terms), slices.Clone(terms)}
+	rand.New(rand.NewPCG(1, 2)).Shuffle(len(terms), func(i, j int) { orders[1][i], orders[1][j] = orders[1][j], orders[1][i] })
+	b.ResetTimer()
+	for i := 0; i < b.N; i += 2 * len(terms) {
+		var v Vocabulary
+		var wg sync.WaitGroup
+		for _, order := range orders {
+			wg.Go(func() {
+				for _, t := range order {
+					v.ID(t)
+				}
+			})
+		}
+		wg.Wait()
 	}
 }

@@ -49,7 +49,7 @@ func TestAddPathsBuildTheSameMatrix(t *testing.T) {
 		}
 		slices.Sort(cols)
 		for _, id := range cols {
-			counts = append(counts, int32(d[b.vocab.terms[id]]))
+			counts = append(counts, int32(d[b.vocab.Term(id)]))
 		}
 		return cols, counts
 	}
@@ -107,49 +107,95 @@ func TestBuildIgnoresUnusedIDs(t *testing.T) {
 }
 
 func TestAddRowIDsPanics(t *testing.T) {
-	for name, f := range map[string]func(b *Builder){
-		"out of order":       func(b *Builder) { b.AddRowIDs([]int32{1, 0}, []int32{1, 1}) },
-		"repeated":           func(b *Builder) { b.AddRowIDs([]int32{0, 0}, []int32{1, 1}) },
-		"zero count":         func(b *Builder) { b.AddRowIDs([]int32{0}, []int32{0}) },
-		"unknown ID":         func(b *Builder) { b.AddRowIDs([]int32{7}, []int32{1}) },
-		"lengths":            func(b *Builder) { b.AddRowIDs([]int32{0}, nil) },
-		"counted unknown ID": func(b *Builder) { var rc RowCounter; rc.Add(9); b.AddCounted(rc.Row()) },
+	// lo and hi are the IDs of "a" and "b", in order; unknown is an ID
+	// the vocabulary did not give, below hi when there is one.
+	for name, f := range map[string]func(b *Builder, lo, hi, unknown int32){
+		"out of order":     func(b *Builder, lo, hi, _ int32) { b.AddRowIDs([]int32{hi, lo}, []int32{1, 1}) },
+		"repeated":         func(b *Builder, lo, _, _ int32) { b.AddRowIDs([]int32{lo, lo}, []int32{1, 1}) },
+		"zero count":       func(b *Builder, lo, _, _ int32) { b.AddRowIDs([]int32{lo}, []int32{0}) },
+		"unknown ID":       func(b *Builder, _, _, u int32) { b.AddRowIDs([]int32{u}, []int32{1}) },
+		"unknown first ID": func(b *Builder, _, hi, u int32) { b.AddRowIDs([]int32{u, hi + 1<<vocabShardBits}, []int32{1, 1}) },
+		"negative ID":      func(b *Builder, _, _, _ int32) { b.AddRowIDs([]int32{-1}, []int32{1}) },
+		"lengths":          func(b *Builder, lo, _, _ int32) { b.AddRowIDs([]int32{lo}, nil) },
+		"counted unknown ID": func(b *Builder, _, hi, _ int32) {
+			var rc RowCounter
+			rc.Add(hi + 9<<vocabShardBits)
+			b.AddCounted(rc.Row())
+		},
 	} {
 		t.Run(name, func(t *testing.T) {
 			var b Builder
-			b.Vocabulary().ID("a")
-			b.Vocabulary().ID("b")
+			lo, hi := b.Vocabulary().ID("a"), b.Vocabulary().ID("b")
+			if lo > hi {
+				lo, hi = hi, lo
+			}
+			unknown := int32(0)
+			for b.vocab.valid(unknown) {
+				unknown++
+			}
 			defer func() {
 				if recover() == nil {
 					t.Error("no panic")
 				}
 			}()
-			f(&b)
+			f(&b, lo, hi, unknown)
 		})
 	}
 }
 
-// Goroutines may ask for IDs at the same time (run with -race); every
-// term gets one ID, distinct terms distinct IDs, and Term gives each ID's
-// term back.
+// AddCounted checks only a row's largest ID; Build must refuse a row with
+// a smaller ID that the vocabulary did not give (IDs are not dense: each
+// shard of the vocabulary has its own run).
+func TestBuildFindsUnknownIDs(t *testing.T) {
+	var b Builder
+	v := b.Vocabulary()
+	var ids []int32
+	hole := int32(-1)
+	for i := 0; hole < 0; i++ {
+		if i == 10000 {
+			t.Fatal("no ID below the largest is free after 10,000 terms")
+		}
+		ids = append(ids, v.ID(fmt.Sprint("t", i)))
+		for id := range slices.Max(ids) {
+			if !v.valid(id) {
+				hole = id
+				break
+			}
+		}
+	}
+	var rc RowCounter
+	rc.Add(hole)
+	rc.Add(slices.Max(ids))
+	b.AddCounted(rc.Row()) // the largest ID is valid: accepted
+	defer func() {
+		if recover() == nil {
+			t.Error("Build accepted a row holding an ID the vocabulary never gave")
+		}
+	}()
+	b.Build(Pruning{})
+}
+
+// Goroutines may ask for IDs at the same time (run with -race), while the
+// shards' tables grow under them; every term gets one ID, distinct terms
+// distinct IDs, and Term gives each ID's term back.
 func TestVocabularyConcurrent(t *testing.T) {
 	var v Vocabulary
 	var wg sync.WaitGroup
 	got := make([][]int32, 4)
 	for g := range got {
 		wg.Go(func() {
-			for j := range 1000 {
-				got[g] = append(got[g], v.ID(fmt.Sprint((j*7+g*13)%1000)))
+			for j := range 20000 {
+				got[g] = append(got[g], v.ID(fmt.Sprint((j*7+g*13)%20000)))
 			}
 		})
 	}
 	wg.Wait()
-	if v.Len() != 1000 {
-		t.Fatalf("%d IDs for 1000 terms", v.Len())
+	if v.Len() != 20000 {
+		t.Fatalf("%d IDs for 20000 terms", v.Len())
 	}
 	for g := range got {
 		for j, id := range got[g] {
-			term := fmt.Sprint((j*7 + g*13) % 1000)
+			term := fmt.Sprint((j*7 + g*13) % 20000)
 			if want := v.ID(term); id != want {
 				t.Fatalf("term %d: ID %d, then %d", j, id, want)
 			}
