@@ -77,6 +77,7 @@ type Analyzer struct {
 // tokMemo is the memo of one distinct word token, beside its slot.
 type tokMemo struct {
 	key    string // the token, the memo's own copy
+	tail   uint64 // of a token longer than wKey: tailWord, its bytes after the slot's
 	pieces int32  // detection: pieces between apostrophes
 	multi  int32  // detection: 1 + index in Analyzer.multi of the stop counts of a token of several pieces; 0 when it has none
 }
@@ -565,6 +566,9 @@ func (a *Analyzer) newToken(i int, b []byte, sc script) {
 	key := string(b)
 	f := wordFacts(b, sc)
 	tm := tokMemo{key: key, pieces: int32(f.pieces)}
+	if len(b) > wKey {
+		tm.tail = tailWord(b)
+	}
 	s := wslot{lang: noLang, marks: f.marks, ti: int32(len(a.toks)), id: idUnknown}
 	s.klen = uint8(len(b))
 	if len(b) > wKey {

@@ -141,20 +141,32 @@ func (t *wordTable) find(tok []byte, h uint64, toks []tokMemo) (int, bool) {
 		}
 	}
 	// A long token: its first wKey bytes are in the slot, with klen
-	// wLong; the rest is compared with the memo record's copy.
+	// wLong; the next 8 are in the memo record (tokMemo.tail), beside the
+	// length of its copy of the token, and only a token longer than that
+	// has the rest compared with the copy's bytes (one cache miss less).
 	x, y := headWords(tok[:wKey])
 	y |= wLong << 24
+	tail := tailWord(tok)
 	for i := h & mask; ; i = (i + 1) & mask {
 		s := &t.slots[i]
 		if s.klen == 0 {
 			return int(i), false
 		}
 		if sx, sy := s.head(); sx == x && sy == y {
-			if key := toks[s.ti].key; len(key) == len(tok) && key[wKey:] == string(tok[wKey:]) {
+			if tm := &toks[s.ti]; len(tm.key) == len(tok) && tm.tail == tail &&
+				(len(tok) <= wKey+8 || tm.key[wKey+8:] == string(tok[wKey+8:])) {
 				return int(i), true
 			}
 		}
 	}
+}
+
+// tailWord returns bytes wKey to wKey+7 of a token longer than wKey,
+// little-endian, padded with zeros: tokMemo.tail.
+func tailWord(tok []byte) uint64 {
+	var p [8]byte
+	copy(p[:], tok[wKey:])
+	return binary.LittleEndian.Uint64(p[:])
 }
 
 // grow doubles the table (or makes its first 1024 slots).

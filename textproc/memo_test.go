@@ -103,3 +103,42 @@ func TestProbeFindsWhatFindFinds(t *testing.T) {
 		t.Errorf("the probe found %d of %d short tokens", found, short)
 	}
 }
+
+// TestLongTokensTellApart feeds the memo tokens longer than a slot holds
+// that share their first wKey bytes (the slot's part) and differ only
+// after it: in the next 8 bytes (tokMemo.tail), beyond them, or in length
+// alone. Each must get a slot of its own and find it again. Common
+// practice, no outside source.
+func TestLongTokensTellApart(t *testing.T) {
+	a := NewAnalyzer(Options{})
+	r := rand.New(rand.NewPCG(8, 9))
+	head := "abcdefghijk" // wKey bytes
+	seen := map[string]int32{}
+	var toks []string
+	for n := wKey + 1; n <= wKey+20; n++ {
+		for range 30 {
+			b := []byte(head + strings.Repeat("z", n-wKey))
+			b[wKey+r.IntN(n-wKey)] = byte('a' + r.IntN(3))
+			toks = append(toks, string(b))
+		}
+	}
+	// Pass 0 adds them (the table may grow meanwhile); passes 1 and 2 only
+	// find them, so their slots stay put.
+	for pass := range 3 {
+		for _, tok := range toks {
+			si := a.wordSlot([]byte(tok), scriptLatin)
+			if got := a.toks[a.words.slots[si].ti].key; got != tok {
+				t.Fatalf("pass %d: %q found the slot of %q", pass, tok, got)
+			}
+			if want, ok := seen[tok]; pass == 2 && (!ok || want != si) {
+				t.Fatalf("%q in slot %d, before in %d", tok, si, want)
+			}
+			if pass == 1 {
+				seen[tok] = si
+			}
+		}
+	}
+	if a.words.used != len(seen) {
+		t.Fatalf("%d slots used for %d distinct tokens", a.words.used, len(seen))
+	}
+}
