@@ -208,6 +208,17 @@ type Builder struct {
 	rowAt  []uint64
 	rowLen []int32
 	ent    []entry // scratch of AddRow
+
+	// The document frequencies that the builder's own row counters
+	// (NewRowCounter) count as they make rows, which Build takes instead of
+	// a pass over the rows when the rows added are exactly the rows those
+	// counters made, each once (see dfFromCounters).
+	cmu      sync.Mutex // guards counters
+	counters []*RowCounter
+	added    [][]uint64 // by counter: one bit per row it made, set when added
+	nAdded   []int32    // by counter: its rows added
+	foreign  bool       // a row came from elsewhere, or one came twice
+	counted  bool       // the last Build took the counters' frequencies (for the tests)
 }
 
 type entry struct {
@@ -226,6 +237,7 @@ func (b *Builder) Vocabulary() *Vocabulary { return &b.vocab }
 // AddRow adds one document with its term counts. Counts of zero or less
 // are ignored.
 func (b *Builder) AddRow(counts map[string]int) {
+	b.foreign = true
 	b.ent = b.ent[:0]
 	for t, c := range counts {
 		if c > 0 {
@@ -247,6 +259,7 @@ func (b *Builder) AddRowIDs(cols, counts []int32) {
 	if len(cols) != len(counts) {
 		panic("sparsemat: AddRowIDs with columns and counts of different lengths")
 	}
+	b.foreign = true
 	dst := b.reserve(len(cols))
 	prev := int32(-1)
 	for k, id := range cols {
@@ -269,9 +282,92 @@ func (b *Builder) AddCounted(r Row) {
 	if r.maxID >= 0 && !b.vocab.valid(r.maxID) {
 		panic("sparsemat: AddCounted with a term ID outside the vocabulary")
 	}
+	b.tally(r)
 	dst := b.reserve(int(r.n))
 	dst = append(dst, r.enc...)
 	b.commit(dst, int(r.n))
+}
+
+// NewRowCounter returns a RowCounter that also counts, by term ID, the
+// document frequencies of the rows it makes, so that Build need not count
+// them again: Build takes the counters' frequencies when the rows added
+// to b are exactly the rows that b's counters made, each added once, and
+// counts them from the rows otherwise (the result is the same either
+// way). Every counter must be done making rows before Build runs. Unlike
+// the rest of Builder, NewRowCounter is safe for concurrent use, so that
+// each goroutine can make its own.
+func (b *Builder) NewRowCounter() *RowCounter {
+	b.cmu.Lock()
+	defer b.cmu.Unlock()
+	c := &RowCounter{b: b, part: len(b.counters)}
+	b.counters = append(b.counters, c)
+	return c
+}
+
+// tally notes which counter's row r is, for dfFromCounters.
+func (b *Builder) tally(r Row) {
+	c := r.ctr
+	if c == nil || c.b != b {
+		b.foreign = true
+		return
+	}
+	for len(b.added) <= c.part {
+		b.added = append(b.added, nil)
+		b.nAdded = append(b.nAdded, 0)
+	}
+	bits := b.added[c.part]
+	w := int(r.seq >> 6)
+	if w >= len(bits) {
+		bits = append(bits, make([]uint64, w+1-len(bits))...)
+		b.added[c.part] = bits
+	}
+	bit := uint64(1) << (r.seq & 63)
+	if bits[w]&bit != 0 {
+		b.foreign = true // the same row twice
+		return
+	}
+	bits[w] |= bit
+	b.nAdded[c.part]++
+}
+
+// dfFromCounters returns the document frequencies of the rows added, by
+// term ID below size, from the counters that made them, or nil when some
+// row added was not made by one of b's counters, was added twice, or a
+// row a counter made was not added.
+func (b *Builder) dfFromCounters(size int) []int32 {
+	b.cmu.Lock()
+	counters := b.counters
+	b.cmu.Unlock()
+	if b.foreign || len(counters) == 0 {
+		return nil
+	}
+	total := 0
+	for k, c := range counters {
+		n := int32(0)
+		if k < len(b.nAdded) {
+			n = b.nAdded[k]
+		}
+		if n != c.made {
+			return nil
+		}
+		total += int(n)
+	}
+	if total != b.Rows() {
+		return nil
+	}
+	df := make([]int32, size)
+	for _, c := range counters {
+		for id, d := range c.df {
+			if d == 0 {
+				continue
+			}
+			if id >= size {
+				panic("sparsemat: AddCounted with a term ID outside the vocabulary")
+			}
+			df[id] += d
+		}
+	}
+	return df
 }
 
 // reserve returns the current slab with room for a row of n entries
@@ -412,31 +508,36 @@ func (b *Builder) Build(p Pruning) (*Counts, error) {
 	}
 	terms, given := b.vocab.byID()
 
-	// Document frequencies, from the rows themselves: each goroutine
-	// counts into its own array, and the arrays are summed.
-	procs := runtime.GOMAXPROCS(0)
-	dfs := make([][]int32, procs)
-	used := b.parallelRows(func(lo, hi, w int) {
-		if dfs[w] == nil {
-			dfs[w] = make([]int32, len(terms))
-		}
-		var buf []entry
-		for i := lo; i < hi; i++ {
-			buf = b.decodeRow(i, buf[:0])
-			for _, e := range buf {
-				dfs[w][e.id]++
-			}
-		}
-	})
-	df := dfs[0]
+	// Document frequencies: from the row counters that made the rows, or
+	// from the rows themselves, each goroutine counting into its own
+	// array, the arrays summed.
+	df := b.dfFromCounters(len(terms))
+	b.counted = df != nil
 	if df == nil {
-		df = make([]int32, len(terms))
-	}
-	for w := 1; w < used; w++ {
-		for id, d := range dfs[w] {
-			df[id] += d
+		procs := runtime.GOMAXPROCS(0)
+		dfs := make([][]int32, procs)
+		used := b.parallelRows(func(lo, hi, w int) {
+			if dfs[w] == nil {
+				dfs[w] = make([]int32, len(terms))
+			}
+			var buf []entry
+			for i := lo; i < hi; i++ {
+				buf = b.decodeRow(i, buf[:0])
+				for _, e := range buf {
+					dfs[w][e.id]++
+				}
+			}
+		})
+		df = dfs[0]
+		if df == nil {
+			df = make([]int32, len(terms))
 		}
-		dfs[w] = nil
+		for w := 1; w < used; w++ {
+			for id, d := range dfs[w] {
+				df[id] += d
+			}
+			dfs[w] = nil
+		}
 	}
 	maxDF := int(p.MaxDFShare * float64(m)) // floor, as scikit-learn does
 	type kept struct {
@@ -577,8 +678,10 @@ func sortEntries(packed, tmp []uint64, idBits int) ([]uint64, []uint64) {
 // [Builder.AddCounted]: compact, and owned by whoever holds it.
 type Row struct {
 	enc   []byte
-	n     int32 // entries
-	maxID int32 // -1 for an empty row
+	n     int32       // entries
+	maxID int32       // -1 for an empty row
+	ctr   *RowCounter // the counter that made it, when a builder's (NewRowCounter)
+	seq   int32       // its number among ctr's rows
 }
 
 // Len returns the number of distinct terms in the row.
@@ -592,6 +695,13 @@ func (r Row) Len() int { return int(r.n) }
 type RowCounter struct {
 	count []int32 // by term ID; zero outside the current row
 	ids   []int32 // the row's distinct IDs
+	// Of a counter made by Builder.NewRowCounter: the builder, the
+	// counter's index in it, the rows made and, by term ID, how many of
+	// them hold the term.
+	b    *Builder
+	part int
+	made int32
+	df   []int32
 }
 
 // Add counts one occurrence of the term with ID id (at least 0).
@@ -623,6 +733,19 @@ func (c *RowCounter) Row() Row {
 		maxID = max(maxID, id)
 	}
 	r := Row{enc: enc, n: int32(len(c.ids)), maxID: maxID}
+	if c.b != nil {
+		if len(c.df) < len(c.count) {
+			c.df = append(c.df, make([]int32, len(c.count)-len(c.df))...)
+		}
+		for _, id := range c.ids {
+			c.df[id]++
+		}
+		if c.made == 1<<31-1 {
+			panic("sparsemat: more than 2³¹−1 rows from one RowCounter")
+		}
+		r.ctr, r.seq = c, c.made
+		c.made++
+	}
 	c.ids = c.ids[:0]
 	return r
 }

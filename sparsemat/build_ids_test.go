@@ -279,3 +279,119 @@ func TestUvarint(t *testing.T) {
 		}
 	}
 }
+
+// Build takes the document frequencies that a builder's own row counters
+// (NewRowCounter) counted only when the rows added are exactly the rows
+// they made, each once; in every other case it counts them from the rows.
+// Either way the result must be the matrix of the rows added, which a
+// builder fed the same rows through term maps gives.
+func TestCounterFrequencies(t *testing.T) {
+	r := rand.New(rand.NewPCG(4, 4))
+	docs := make([]map[string]int, 300)
+	for i := range docs {
+		docs[i] = map[string]int{}
+		for range r.IntN(30) {
+			docs[i][fmt.Sprint("t", min(r.IntN(200), r.IntN(200)))]++
+		}
+	}
+	// rows makes every document's row with three counters of b, taking
+	// turns (from three goroutines at once, as ingest workers would).
+	rows := func(b *Builder) []Row {
+		out := make([]Row, len(docs))
+		var wg sync.WaitGroup
+		for g := range 3 {
+			wg.Go(func() {
+				c := b.NewRowCounter()
+				for i := g; i < len(docs); i += 3 {
+					for term, n := range docs[i] {
+						for range n {
+							c.Add(b.Vocabulary().ID(term))
+						}
+					}
+					out[i] = c.Row()
+				}
+			})
+		}
+		wg.Wait()
+		return out
+	}
+	build := func(b *Builder) *Counts {
+		c, err := b.Build(Pruning{MinDF: 2, MaxDFShare: 0.6})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return c
+	}
+	// want builds the rows of docs[i] for i in order, then extra, through
+	// term maps.
+	want := func(order []int, extra map[string]int) *Counts {
+		var b Builder
+		for _, i := range order {
+			b.AddRow(docs[i])
+		}
+		if extra != nil {
+			b.AddRow(extra)
+		}
+		return build(&b)
+	}
+	same := func(name string, got, want *Counts) {
+		t.Helper()
+		if !slices.Equal(got.Terms, want.Terms) || !slices.Equal(got.DF, want.DF) || !slices.Equal(got.Rows, want.Rows) ||
+			!reflect.DeepEqual(got.Matrix.RawMatrix(), want.Matrix.RawMatrix()) {
+			t.Fatalf("%s: the matrix differs from the rows' own", name)
+		}
+	}
+	all := make([]int, len(docs))
+	for i := range all {
+		all[i] = i
+	}
+	cases := []struct {
+		name    string
+		order   func() []int // the documents whose rows are added, in order
+		extra   func(b *Builder, rs []Row)
+		row     map[string]int // the extra row's terms, nil when it is not checked
+		counted bool
+	}{
+		{"every row once", func() []int { return all }, nil, nil, true},
+		{"every row once, shuffled", func() []int {
+			o := slices.Clone(all)
+			r.Shuffle(len(o), func(i, j int) { o[i], o[j] = o[j], o[i] })
+			return o
+		}, nil, nil, true},
+		{"a row left out", func() []int { return all[1:] }, nil, nil, false},
+		{"a row twice, another left out", func() []int { o := slices.Clone(all); o[5] = 6; return o }, nil, nil, false},
+		{"a row of a plain counter", func() []int { return all }, func(b *Builder, _ []Row) {
+			var c RowCounter
+			c.Add(b.Vocabulary().ID("t0"))
+			b.AddCounted(c.Row())
+		}, map[string]int{"t0": 1}, false},
+		{"a row through AddRowIDs", func() []int { return all }, func(b *Builder, _ []Row) {
+			b.AddRowIDs([]int32{b.Vocabulary().ID("t1")}, []int32{2})
+		}, map[string]int{"t1": 2}, false},
+		{"a row of another builder's counter", func() []int { return all }, func(b *Builder, _ []Row) {
+			var other Builder
+			c := other.NewRowCounter()
+			b.Vocabulary().ID("t2") // the same shard here, so other's ID is valid here too
+			c.Add(other.Vocabulary().ID("t2"))
+			b.AddCounted(c.Row()) // other's ID may be another term's here: only the path is checked
+		}, nil, false},
+	}
+	for _, tc := range cases {
+		var b Builder
+		rs := rows(&b)
+		order := tc.order()
+		for _, i := range order {
+			b.AddCounted(rs[i])
+		}
+		if tc.extra != nil {
+			tc.extra(&b, rs)
+		}
+		got := build(&b)
+		if b.counted != tc.counted {
+			t.Fatalf("%s: frequencies from the counters %v, want %v", tc.name, b.counted, tc.counted)
+		}
+		if tc.extra == nil || tc.row != nil {
+			same(tc.name, got, want(order, tc.row))
+		}
+	}
+}

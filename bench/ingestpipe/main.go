@@ -207,7 +207,7 @@ func ingestIDs(fsys fs.FS, opts textproc.Options, jobs int, minhash bool) (*resu
 		analyzers = append(analyzers, az)
 		mu.Unlock()
 		var ids []int32
-		var rc sparsemat.RowCounter
+		rc := b.NewRowCounter()
 		var termHash []uint64 // by term ID, for -minhash
 		var seq []uint64
 		return func(d corpus.Document) analysed {

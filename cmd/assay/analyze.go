@@ -84,9 +84,9 @@ func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, erro
 		mu.Lock()
 		analyzers = append(analyzers, az)
 		mu.Unlock()
+		rc := col.b.NewRowCounter() // counts the document frequencies too
 		var (
 			ids      []int32
-			rc       sparsemat.RowCounter
 			termHash []uint64 // fnv64 of each term, by provisional ID
 			seq      []uint64
 		)
