@@ -11,7 +11,7 @@ import (
 // file relative to it, never following a symbolic link, and reads it
 // through its descriptor without the runtime's file bookkeeping (which
 // costs four fcntl calls and a refused epoll registration a file). On
-// Linux that is five system calls a file instead of twelve. Anything out
+// Linux that is four system calls a file instead of twelve. Anything out
 // of the ordinary (a link anywhere on the path, an error, a file that is
 // not regular or not the size it said) goes to the usual path through
 // root, which gives the same result or the same reason as it always
