@@ -369,40 +369,40 @@ func (a *Analyzer) countEntry(ids []int32, e *memoEntry) []int32 {
 // last call, and clears the counts. The forms of several analyzers can be
 // added to one DisplayForms in any order: the counts are sums.
 func (a *Analyzer) AddFormsTo(d *DisplayForms) {
-	a.settleCounts()
-	for i := range a.entries {
-		e := &a.entries[i]
-		if e.n > 0 {
-			d.AddN(e.term, e.surface, int(e.n))
-			e.n = 0
-		}
-	}
-	for f, n := range a.forms {
-		d.AddN(f[0], f[1], n)
-	}
-	a.forms = nil
+	a.takeForms(func(e *memoEntry) { d.AddN(e.term, e.surface, int(e.n)) },
+		func(term, surface string, n int) { d.AddN(term, surface, n) })
 }
 
 // AddFormsByID is AddFormsTo for a [FormsByID]: the forms are counted
 // under the numbers Options.TermID gave their terms.
 func (a *Analyzer) AddFormsByID(f *FormsByID) {
-	a.settleCounts()
 	top := int32(-1)
+	a.takeForms(func(e *memoEntry) {
+		if top < 0 { // the first: make room for them all at once
+			for i := range a.entries {
+				if e := &a.entries[i]; e.n > 0 {
+					top = max(top, e.id)
+				}
+			}
+			f.reserve(top)
+		}
+		f.AddN(e.id, e.surface, int(e.n))
+	}, func(term, surface string, n int) { f.AddN(a.opts.TermID(term), surface, n) })
+}
+
+// takeForms hands the counted forms to the memo's entry (each entry with
+// a count, in the memo's order) or to plain (the forms counted without the
+// memo), and clears the counts.
+func (a *Analyzer) takeForms(entry func(e *memoEntry), plain func(term, surface string, n int)) {
+	a.settleCounts()
 	for i := range a.entries {
 		if e := &a.entries[i]; e.n > 0 {
-			top = max(top, e.id)
-		}
-	}
-	f.reserve(top)
-	for i := range a.entries {
-		e := &a.entries[i]
-		if e.n > 0 {
-			f.AddN(e.id, e.surface, int(e.n))
+			entry(e)
 			e.n = 0
 		}
 	}
-	for fm, n := range a.forms {
-		f.AddN(a.opts.TermID(fm[0]), fm[1], n)
+	for f, n := range a.forms {
+		plain(f[0], f[1], n)
 	}
 	a.forms = nil
 }

@@ -223,6 +223,22 @@ func TestMemoMatchesNoMemo(t *testing.T) {
 	}
 }
 
+// termNumbers returns a TermID function that numbers terms 0, 1, 2, … in
+// the order first asked for, and the list of the terms it numbered.
+func termNumbers() (*[]string, func(string) int32) {
+	var terms []string
+	ids := map[string]int32{}
+	return &terms, func(term string) int32 {
+		id, ok := ids[term]
+		if !ok {
+			id = int32(len(terms))
+			ids[term] = id
+			terms = append(terms, term)
+		}
+		return id
+	}
+}
+
 // TestAnalyzeIDsMatchesAnalyze checks that AnalyzeIDs reports the terms
 // of Analyze, through TermID, and that AddFormsTo adds the forms Analyze
 // emits, with and without the memo.
@@ -233,17 +249,7 @@ func TestAnalyzeIDsMatchesAnalyze(t *testing.T) {
 		docs = append(docs, randomTricky(r, 5))
 	}
 	for _, noMemo := range []bool{false, true} {
-		var terms []string
-		ids := map[string]int32{}
-		termID := func(term string) int32 {
-			id, ok := ids[term]
-			if !ok {
-				id = int32(len(terms))
-				ids[term] = id
-				terms = append(terms, term)
-			}
-			return id
-		}
+		terms, termID := termNumbers()
 		withIDs := NewAnalyzer(Options{NoMemo: noMemo, TermID: termID})
 		plain := NewAnalyzer(Options{NoMemo: true})
 		var wantForms, gotForms DisplayForms
@@ -258,7 +264,7 @@ func TestAnalyzeIDsMatchesAnalyze(t *testing.T) {
 			buf, lang = withIDs.AnalyzeIDs(d, buf[:0])
 			var got []string
 			for _, id := range buf {
-				got = append(got, terms[id])
+				got = append(got, (*terms)[id])
 			}
 			if lang != wantLang || !slices.Equal(got, want) {
 				t.Fatalf("noMemo=%v: AnalyzeIDs(%q) = %q (%s), want %q (%s)", noMemo, d, got, lang, want, wantLang)
@@ -293,17 +299,7 @@ func TestAddFormsByIDMatchesAddFormsTo(t *testing.T) {
 		docs = append(docs, randomTricky(r, 5))
 	}
 	for _, noMemo := range []bool{false, true} {
-		var terms []string
-		ids := map[string]int32{}
-		termID := func(term string) int32 {
-			id, ok := ids[term]
-			if !ok {
-				id = int32(len(terms))
-				ids[term] = id
-				terms = append(terms, term)
-			}
-			return id
-		}
+		numbered, termID := termNumbers()
 		byTerm := []*Analyzer{NewAnalyzer(Options{NoMemo: noMemo, TermID: termID}), NewAnalyzer(Options{NoMemo: noMemo, TermID: termID})}
 		byID := []*Analyzer{NewAnalyzer(Options{NoMemo: noMemo, TermID: termID}), NewAnalyzer(Options{NoMemo: noMemo, TermID: termID})}
 		var buf []int32
@@ -311,6 +307,7 @@ func TestAddFormsByIDMatchesAddFormsTo(t *testing.T) {
 			buf, _ = byTerm[k%2].AnalyzeIDs(d, buf[:0])
 			buf, _ = byID[(k/3)%2].AnalyzeIDs(d, buf[:0])
 		}
+		terms := *numbered
 		var want, got, some DisplayForms
 		var f FormsByID
 		for i := range 2 {
