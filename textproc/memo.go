@@ -3,6 +3,8 @@ package textproc
 import (
 	"encoding/binary"
 	"math/bits"
+	"os"
+	"unsafe"
 )
 
 // wordTable is the memo's index of the distinct word tokens an analyzer
@@ -21,6 +23,9 @@ type wordTable struct {
 	slots []wslot
 	used  int
 }
+
+// slotsPerPage is how many slots a page of memory holds (at least 1).
+var slotsPerPage = max(1, os.Getpagesize()/int(unsafe.Sizeof(wslot{})))
 
 // wKey is the longest token a slot holds; longer ones are compared with
 // the memo record's copy (tokMemo.key).
@@ -170,9 +175,21 @@ func tailWord(tok []byte) uint64 {
 }
 
 // grow doubles the table (or makes its first 1024 slots).
+//
+// The new table is first touched page by page, in address order, and only
+// then filled in hash order. Measured (assay pick --lang english --no-stem
+// --near-dup off, timings.read, 7 fresh processes each, interleaved,
+// medians): SpamAssassin 0.436 -> 0.375 s, SpamAssassin .eml 0.603 ->
+// 0.565 s, the generated 10k corpus 0.578 -> 0.561 s, 100k 3.33 -> 3.09 s.
+// The first write to each page of a fresh table faults; in hash order
+// those faults, taken by both workers at once while the collector runs,
+// cost several times what they cost in address order on this machine.
 func (t *wordTable) grow(toks []tokMemo) {
 	old := t.slots
 	t.slots = make([]wslot, max(2*len(old), 1024))
+	for i := 0; i < len(t.slots); i += slotsPerPage {
+		t.slots[i].klen = 0
+	}
 	for i := range old {
 		if s := &old[i]; s.klen != 0 {
 			t.slots[t.slotOf(s, toks)] = *s
