@@ -15,6 +15,10 @@ import (
 	"github.com/james-bowman/sparse"
 )
 
+// errCountedOutside is the panic of a counted row holding an ID that the
+// builder's vocabulary did not give (found by AddCounted or by Build).
+const errCountedOutside = "sparsemat: AddCounted with a term ID outside the vocabulary"
+
 // ErrNoTerms is returned by [Builder.Build] when pruning leaves no term.
 var ErrNoTerms = errors.New("no terms left after pruning")
 
@@ -167,9 +171,9 @@ func (v *Vocabulary) Len() int {
 	return n
 }
 
-// byID returns every term at the index of its ID, and whether each index
-// is an ID (the few IDs between shards' runs are not).
-func (v *Vocabulary) byID() ([]string, []bool) {
+// byID returns every term at the index of its ID ("" at the few indices
+// between shards' runs, which are not IDs: see valid).
+func (v *Vocabulary) byID() []string {
 	size := 0
 	for s := range v.shards {
 		sh := &v.shards[s]
@@ -179,16 +183,16 @@ func (v *Vocabulary) byID() ([]string, []bool) {
 		}
 		sh.mu.Unlock()
 	}
-	terms, given := make([]string, size), make([]bool, size)
+	terms := make([]string, size)
 	for s := range v.shards {
 		sh := &v.shards[s]
 		sh.mu.Lock()
 		for k, t := range sh.terms {
-			terms[k<<vocabShardBits|s], given[k<<vocabShardBits|s] = t, true
+			terms[k<<vocabShardBits|s] = t
 		}
 		sh.mu.Unlock()
 	}
-	return terms, given
+	return terms
 }
 
 // Builder accumulates the term counts of documents, one row at a time.
@@ -280,7 +284,7 @@ func (b *Builder) AddRowIDs(cols, counts []int32) {
 // the others.
 func (b *Builder) AddCounted(r Row) {
 	if r.maxID >= 0 && !b.vocab.valid(r.maxID) {
-		panic("sparsemat: AddCounted with a term ID outside the vocabulary")
+		panic(errCountedOutside)
 	}
 	b.tally(r)
 	dst := b.reserve(int(r.n))
@@ -362,7 +366,7 @@ func (b *Builder) dfFromCounters(size int) []int32 {
 				continue
 			}
 			if id >= size {
-				panic("sparsemat: AddCounted with a term ID outside the vocabulary")
+				panic(errCountedOutside)
 			}
 			df[id] += d
 		}
@@ -506,7 +510,7 @@ func (b *Builder) Build(p Pruning) (*Counts, error) {
 	if p.MinDF < 0 {
 		return nil, fmt.Errorf("min-df %d is negative", p.MinDF)
 	}
-	terms, given := b.vocab.byID()
+	terms := b.vocab.byID()
 
 	// Document frequencies: from the row counters that made the rows, or
 	// from the rows themselves, each goroutine counting into its own
@@ -550,8 +554,8 @@ func (b *Builder) Build(p Pruning) (*Counts, error) {
 		if d == 0 {
 			continue // given an ID but in no row, or no ID
 		}
-		if !given[id] {
-			panic("sparsemat: AddCounted with a term ID outside the vocabulary")
+		if !b.vocab.valid(int32(id)) {
+			panic(errCountedOutside)
 		}
 		vocabSize++
 		if int(d) >= p.MinDF && int(d) <= maxDF {
