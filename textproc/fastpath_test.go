@@ -88,7 +88,7 @@ func checkNormalization(t *testing.T, text string) {
 }
 
 // TestASCIIRunMatchesBytewise checks the eight-bytes-at-a-time scan of
-// ASCII words (asciiRun) against the byte-at-a-time scan, with and
+// ASCII words (asciiWords) against the byte-at-a-time scan, with and
 // without lower-casing, on texts of long words in mixed case broken by
 // every ASCII character and by non-ASCII ones, at every offset from the
 // end of the text (where fewer than eight bytes remain). Every byte
@@ -137,6 +137,87 @@ func TestASCIIRunMatchesBytewise(t *testing.T) {
 			w[pos] = byte(c)
 			check(string(w))
 			check(string(w) + " tail")
+		}
+	}
+}
+
+// TestASCIIBlocksMatchBytewise checks the 64-bytes-at-a-time scan of
+// ASCII text (asciiBlock, with asciiWords after it) against the
+// byte-at-a-time scan, with and without lower-casing, on ASCII texts
+// long enough for several blocks: words of every length from 1 to 150
+// bytes (so that words cross block boundaries, and fill whole blocks),
+// numbers that turn into words after a boundary, runs of separators, and
+// now and then an apostrophe or a non-ASCII character (which sends a
+// block back to the eight-byte scan), each text cut at every offset of a
+// block. Common practice, no outside source.
+func TestASCIIBlocksMatchBytewise(t *testing.T) {
+	r := rand.New(rand.NewPCG(9, 10))
+	const (
+		letters = "abcdefxyzABCDEFXYZ"
+		digits  = "0123456789"
+		seps    = " .,;:-_/\n\t()[]{}@`~!?"
+	)
+	pick := func(set string) byte { return set[r.IntN(len(set))] }
+	for range 1500 {
+		var b strings.Builder
+		for b.Len() < 64+r.IntN(400) {
+			n := 1 + r.IntN(12)
+			if r.IntN(10) == 0 {
+				n = 1 + r.IntN(150)
+			}
+			switch r.IntN(6) {
+			case 0: // a number
+				for range n {
+					b.WriteByte(pick(digits))
+				}
+			case 1: // a number, then letters
+				for range n {
+					b.WriteByte(pick(digits))
+				}
+				for range 1 + r.IntN(8) {
+					b.WriteByte(pick(letters))
+				}
+			default:
+				for range n {
+					b.WriteByte(pick(letters + digits[:2]))
+				}
+			}
+			for range 1 + r.IntN(3)*r.IntN(3) {
+				b.WriteByte(pick(seps))
+			}
+			if r.IntN(40) == 0 {
+				b.WriteString([]string{"'", "'s ", "\u00e9", "\u2019", "\xff"}[r.IntN(5)])
+			}
+		}
+		text := b.String()
+		for cut := 0; cut < min(len(text), 64); cut++ {
+			for _, lower := range []bool{false, true} {
+				fast := tokenizer{lower: lower}
+				slow := tokenizer{lower: lower, bytewise: true}
+				fast.run(text[cut:])
+				slow.run(text[cut:])
+				if got, want := tokenDump(&fast), tokenDump(&slow); !slices.Equal(got, want) {
+					t.Fatalf("lower %v, tokens of %q: %q, want %q", lower, text[cut:], got, want)
+				}
+			}
+		}
+	}
+}
+
+// TestHighBits checks highBits against a loop over the bytes, for every
+// one of the 256 patterns of high bits, with the other bits set at
+// random. Common practice, no outside source.
+func TestHighBits(t *testing.T) {
+	r := rand.New(rand.NewPCG(11, 12))
+	for m := range 256 {
+		x := r.Uint64() &^ swarHigh
+		for k := range 8 {
+			if m>>k&1 != 0 {
+				x |= 0x80 << (8 * k)
+			}
+		}
+		if got := highBits(x & swarHigh); got != uint64(m) {
+			t.Fatalf("highBits(%#x) = %#x, want %#x", x&swarHigh, got, m)
 		}
 	}
 }

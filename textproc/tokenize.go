@@ -97,9 +97,12 @@ type tokenizer struct {
 	gclass gramClass
 	// lower writes ASCII capitals in lower case (see run).
 	lower bool
-	// bytewise turns asciiRun off, for tests: ASCII words are then
+	// bytewise turns asciiText off, for tests: ASCII words are then
 	// scanned a byte at a time.
 	bytewise bool
+	// blockFrom is the offset in the text where asciiText may try whole
+	// blocks again.
+	blockFrom int
 }
 
 // reset empties the token list, keeping the buffers.
@@ -178,7 +181,7 @@ var asciiClass, wordBits = func() (c [utf8.RuneSelf]uint8, w [256]uint8) {
 	return c, w
 }()
 
-// Words of 8 bytes, for asciiRun.
+// Words of 8 bytes, for asciiBlock and asciiWords.
 const (
 	swarOnes = 0x0101010101010101
 	swarHigh = 0x8080808080808080
@@ -191,36 +194,204 @@ func swarAtLeast(x uint64, c byte) uint64 {
 	return x + swarOnes*uint64(0x80-c)
 }
 
-// asciiRun copies to t.arena the ASCII letters and digits of text from i
-// on, eight bytes at a time while eight bytes of text remain, in lower
-// case when t.lower is set, and returns where it stopped (at the first
-// other byte, or with fewer than eight bytes left, which run scans a byte
-// at a time) and whether it copied a letter.
-func (t *tokenizer) asciiRun(text string, i int) (int, bool) {
-	letters := uint64(0)
-	for !t.bytewise && i+8 <= len(text) {
+// asciiText tokenises text from i on as run does, 64 bytes at a time
+// while the bytes are ASCII other than the apostrophe (asciiBlock), eight
+// at a time through the rest (asciiWords); it returns where it stopped, as
+// asciiWords does.
+//
+// After a block that holds such a byte, no block is tried again before
+// the end of that one: in text where they come every few words (accented
+// letters, say), most tries would fail again.
+func (t *tokenizer) asciiText(text string, i int) int {
+	if i >= t.blockFrom {
+		for i+64 <= len(text) {
+			if !t.asciiBlock(text[i : i+64]) {
+				t.blockFrom = i + 64
+				break
+			}
+			i += 64
+		}
+	}
+	return t.asciiWords(text, i)
+}
+
+// load64 returns the first eight bytes of s, little-endian.
+func load64(s string) uint64 {
+	_ = s[7]
+	return uint64(s[0]) | uint64(s[1])<<8 | uint64(s[2])<<16 | uint64(s[3])<<24 |
+		uint64(s[4])<<32 | uint64(s[5])<<40 | uint64(s[6])<<48 | uint64(s[7])<<56
+}
+
+// highBits gathers the high bit of each byte of x into the byte's bit of
+// the result (byte k gives bit k): the bits, moved to the bottom of their
+// bytes, are multiplied into the top byte, each to its own place, with no
+// carry.
+func highBits(x uint64) uint64 {
+	return ((x >> 7) * 0x0102040810204080) >> 56
+}
+
+// asciiBlock tokenises the 64 bytes b as asciiWords does and reports
+// true, or reports false and leaves everything as it was when b holds an
+// apostrophe or a byte outside ASCII. It works on bit masks of the whole
+// block, one bit a byte, so that a word costs no branch of its own (the
+// lengths of words are irregular, and a branch on each boundary would be
+// mispredicted about once a word).
+func (t *tokenizer) asciiBlock(b string) bool {
+	// First a quick look for the bytes that stop a block, so that text
+	// with many of them loses little on blocks tried in vain.
+	stop := uint64(0)
+	for k := 0; k < 64; k += 8 {
+		x := load64(b[k:])
+		stop |= x&swarHigh | ^swarAtLeast(x&^swarHigh^(swarOnes*'\''), 1)&swarHigh
+	}
+	if stop != 0 {
+		return false
+	}
+	l := len(t.arena)
+	arena := slices.Grow(t.arena, 64)[:l+64]
+	var word, alpha uint64
+	for k := 0; k < 64; k += 8 {
+		x := load64(b[k:]) // ASCII: the high bits are clear
+		upper := swarAtLeast(x, 'A') &^ swarAtLeast(x, 'Z'+1)
+		a := (upper | swarAtLeast(x, 'a')&^swarAtLeast(x, 'z'+1)) & swarHigh
+		w := a | (swarAtLeast(x, '0')&^swarAtLeast(x, '9'+1))&swarHigh
+		if t.lower {
+			x |= (upper & swarHigh) >> 2 // 0x20 on each capital
+		}
+		binary.LittleEndian.PutUint64(arena[l+k:], x)
+		word |= highBits(w) << k
+		alpha |= highBits(a) << k
+	}
+	// Bit p of starts: a word starts at byte p; of ends: a word ends
+	// before byte p. A word being built goes on from the block before.
+	carry := uint64(0)
+	if t.inWord {
+		carry = 1
+	}
+	prev := word<<1 | carry
+	starts, ends := word&^prev, ^word&prev
+	var at [64]uint8 // the starts, then the ends
+	ns := 0
+	for m := starts; m != 0; m &= m - 1 {
+		at[ns] = uint8(bits.TrailingZeros64(m))
+		ns++
+	}
+	ne := ns
+	for m := ends; m != 0; m &= m - 1 {
+		at[ne] = uint8(bits.TrailingZeros64(m))
+		ne++
+	}
+	refs := slices.Grow(t.refs, ne-ns)
+	s := 0 // the next start in at
+	if t.inWord && ne > ns {
+		// The word from before ends in this block.
+		e := int(at[ns])
+		sc := t.wscript
+		if sc == scriptNone && alpha&(uint64(1)<<e-1) != 0 {
+			sc = scriptLatin
+		}
+		refs = append(refs, tokRef{start: t.wstart, end: l + e, kind: tokWord, script: sc})
+		t.inWord = false
+		for k := ns + 1; k < ne; k++ {
+			st, e := int(at[s]), int(at[k])
+			sc := scriptNone
+			if alpha&(uint64(1)<<e-1)>>st != 0 {
+				sc = scriptLatin
+			}
+			refs = append(refs, tokRef{start: l + st, end: l + e, kind: tokWord, script: sc})
+			s++
+		}
+	} else if !t.inWord {
+		for k := ns; k < ne; k++ {
+			st, e := int(at[s]), int(at[k])
+			sc := scriptNone
+			if alpha&(uint64(1)<<e-1)>>st != 0 {
+				sc = scriptLatin
+			}
+			refs = append(refs, tokRef{start: l + st, end: l + e, kind: tokWord, script: sc})
+			s++
+		}
+	}
+	if s < ns {
+		// A word goes on into the next block.
+		st := int(at[s])
+		t.inWord, t.wstart, t.wscript = true, l+st, scriptNone
+		if alpha>>st != 0 {
+			t.wscript = scriptLatin
+		}
+	} else if t.inWord && t.wscript == scriptNone && alpha != 0 {
+		// The word from before takes the whole block.
+		t.wscript = scriptLatin
+	}
+	t.arena, t.refs = arena, refs
+	return true
+}
+
+// asciiWords tokenises text from i on, eight bytes at a time, as run does
+// a byte at a time, while at least eight bytes remain and they are ASCII
+// other than the apostrophe; it returns where it stopped: at an
+// apostrophe or a byte outside ASCII (which run looks at next), or with
+// fewer than eight bytes left. A word being built on entry (t.inWord) is
+// continued, and a word may still be being built on return (it ends at
+// len(t.arena)). Each eight bytes are stored in the arena whole, in lower
+// case when t.lower is set, separators included: a token's ref points at
+// its bytes there, and the bytes between tokens are never read.
+func (t *tokenizer) asciiWords(text string, i int) int {
+	// The state in locals, so that the loop keeps it in registers.
+	arena, refs := t.arena, t.refs
+	inWord, wstart, wscript := t.inWord, t.wstart, t.wscript
+	for i+8 <= len(text) {
 		x := uint64(text[i]) | uint64(text[i+1])<<8 | uint64(text[i+2])<<16 | uint64(text[i+3])<<24 |
 			uint64(text[i+4])<<32 | uint64(text[i+5])<<40 | uint64(text[i+6])<<48 | uint64(text[i+7])<<56
 		x7 := x &^ swarHigh
 		upper := swarAtLeast(x7, 'A') &^ swarAtLeast(x7, 'Z'+1)
-		alpha := upper | swarAtLeast(x7, 'a')&^swarAtLeast(x7, 'z'+1)
-		word := (alpha | swarAtLeast(x7, '0')&^swarAtLeast(x7, '9'+1)) &^ x & swarHigh
-		n := bits.TrailingZeros64(^word&swarHigh) >> 3 // word bytes before the first other one
-		keep := uint64(1)<<(8*n) - 1                   // n = 8 shifts by 64: all ones
-		letters |= alpha & keep
+		alpha := (upper | swarAtLeast(x7, 'a')&^swarAtLeast(x7, 'z'+1)) &^ x & swarHigh
+		word := alpha | (swarAtLeast(x7, '0')&^swarAtLeast(x7, '9'+1))&^x&swarHigh
+		apos := ^swarAtLeast(x7^(swarOnes*'\''), 1) &^ x & swarHigh
+		n := bits.TrailingZeros64(x&swarHigh|apos) >> 3 // bytes before the first apostrophe or non-ASCII one (8: none)
+		keep := uint64(1)<<(8*n) - 1                    // n = 8 shifts by 64: all ones
 		if t.lower {
 			x |= (upper & keep & swarHigh) >> 2 // 0x20 on each capital
 		}
-		l := len(t.arena)
-		t.arena = slices.Grow(t.arena, 8)
-		binary.LittleEndian.PutUint64(t.arena[l:l+8], x)
-		t.arena = t.arena[:l+n]
+		l := len(arena)
+		arena = slices.Grow(arena, 8)[:l+8]
+		binary.LittleEndian.PutUint64(arena[l:], x)
+		arena = arena[:l+n]
+		// The words of bytes [0, n): where each starts and ends.
+		word &= keep
+		for p := 0; p < n; {
+			from := ^uint64(0) << (8 * p)
+			if !inWord {
+				rest := word & from
+				if rest == 0 {
+					break
+				}
+				p = bits.TrailingZeros64(rest) >> 3
+				inWord, wstart, wscript = true, l+p, scriptNone
+				continue
+			}
+			e := n
+			if rest := ^word & swarHigh & keep & from; rest != 0 {
+				e = bits.TrailingZeros64(rest) >> 3
+			}
+			if wscript == scriptNone && alpha&from&(uint64(1)<<(8*e)-1) != 0 {
+				wscript = scriptLatin
+			}
+			if e == n {
+				break // the word goes on
+			}
+			refs = append(refs, tokRef{start: wstart, end: l + e, kind: tokWord, script: wscript})
+			inWord = false
+			p = e
+		}
 		i += n
 		if n < 8 {
 			break
 		}
 	}
-	return i, letters&swarHigh != 0
+	t.arena, t.refs = arena, refs
+	t.inWord, t.wstart, t.wscript = inWord, wstart, wscript
+	return i
 }
 
 // run appends the tokens of text by the rule of the package documentation.
@@ -230,27 +401,30 @@ func (t *tokenizer) asciiRun(text string, i int) (int, bool) {
 // case, which is all that case folding does to ASCII: the analyzer sets it
 // to tokenise ASCII text without normalising it first.
 func (t *tokenizer) run(text string) {
+	t.blockFrom = 0
 	for i := 0; i < len(text); {
 		if c := text[i]; c < utf8.RuneSelf {
-			switch asciiClass[c] {
-			case asciiSep:
-				t.flushWord()
+			switch cl := asciiClass[c]; cl {
+			case asciiSep, asciiDigit, asciiLower, asciiUpper:
 				if t.gclass != gramNone {
 					t.flushGram()
 				}
-				i++
-				continue
-			case asciiDigit, asciiLower, asciiUpper:
-				// The common case: a run of ASCII letters and digits,
-				// copied at once.
-				if t.gclass != gramNone {
-					t.flushGram()
+				if !t.bytewise && i+8 <= len(text) && (cl != asciiSep || text[i+1] < utf8.RuneSelf) {
+					// The common case: runs of ASCII words and
+					// separators, many bytes at a time (not for a
+					// lone separator between words of other
+					// scripts).
+					i = t.asciiText(text, i)
+					continue
+				}
+				if cl == asciiSep {
+					t.flushWord()
+					i++
+					continue
 				}
 				if !t.inWord {
 					t.inWord, t.wstart, t.wscript = true, len(t.arena), scriptNone
 				}
-				var letters bool
-				i, letters = t.asciiRun(text, i)
 				j, seen := i, uint8(0)
 				for ; j < len(text); j++ {
 					f := wordBits[text[j]]
@@ -259,7 +433,7 @@ func (t *tokenizer) run(text string) {
 					}
 					seen |= f
 				}
-				if t.wscript == scriptNone && (letters || seen&(1<<asciiLower|1<<asciiUpper) != 0) {
+				if t.wscript == scriptNone && seen&(1<<asciiLower|1<<asciiUpper) != 0 {
 					t.wscript = scriptLatin
 				}
 				start := len(t.arena)
