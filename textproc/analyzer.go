@@ -286,11 +286,18 @@ func (a *Analyzer) AnalyzeIDs(text string, ids []int32) ([]int32, Language) {
 	doc := a.lookUp(text)
 	docScript := langTable[doc].script
 	slots := a.words.slots
+	// Every token adds at most one ID, so there is room for all of them
+	// and the common case below can store an ID whether or not it is
+	// kept, and count it in only when it is: stop words are a large and
+	// irregular share of the tokens, which a branch would mispredict.
+	m := len(ids)
+	ids = slices.Grow(ids, len(a.at))
 	for k, si := range a.at {
 		sc := a.sc[k]
 		if sc == scriptGram {
 			if e := &a.entries[si]; e.term != "" {
-				ids = a.countEntry(ids, e)
+				ids = a.countEntry(ids[:m], e)
+				m = len(ids)
 			}
 			continue
 		}
@@ -299,17 +306,19 @@ func (a *Analyzer) AnalyzeIDs(text string, ids []int32) ([]int32, Language) {
 			li = idxUnd // a number, or a word in another script
 		}
 		// The common case inline: the slot's own analysis, its term ID
-		// known (or the token known to be dropped).
+		// known (or the token known to be dropped, idDropped < 0).
 		if s := &slots[si]; int(s.lang) == li && s.id != idUnknown {
-			if s.id >= 0 {
-				s.n++
-				ids = append(ids, s.id)
-			}
+			kept := int32(uint32(^s.id) >> 31) // 1 for an ID, 0 for idDropped
+			s.n += kept
+			ids = ids[:m+1]
+			ids[m] = s.id
+			m += int(kept)
 			continue
 		}
-		ids = a.countWord(ids, si, li)
+		ids = a.countWord(ids[:m], si, li)
+		m = len(ids)
 	}
-	return ids, langTable[doc].lang
+	return ids[:m], langTable[doc].lang
 }
 
 // countWord counts one occurrence of the word token in slot si, analysed
