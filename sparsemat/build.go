@@ -711,7 +711,7 @@ type RowCounter struct {
 // Add counts one occurrence of the term with ID id (at least 0).
 func (c *RowCounter) Add(id int32) {
 	if int(id) >= len(c.count) {
-		c.count = append(c.count, make([]int32, max(int(id)+1-len(c.count), len(c.count)/2, 1024))...)
+		c.grow(id)
 	}
 	if c.count[id] == 0 {
 		c.ids = append(c.ids, id)
@@ -720,10 +720,31 @@ func (c *RowCounter) Add(id int32) {
 }
 
 // AddAll counts every ID of ids.
+//
+// Each ID is stored at the end of the row's distinct IDs whether or not
+// the row has it already, and counted in only when it is new: whether an
+// ID is new is irregular (about every other token), and a branch on it
+// would be mispredicted often.
 func (c *RowCounter) AddAll(ids []int32) {
+	n := len(c.ids)
+	out := slices.Grow(c.ids, len(ids))[:n+len(ids)]
+	count := c.count
 	for _, id := range ids {
-		c.Add(id)
+		if int(id) >= len(count) {
+			c.grow(id)
+			count = c.count
+		}
+		k := count[id]
+		out[n] = id
+		n += int(uint32(k-1) >> 31) // 1 when the row did not have id yet (k = 0)
+		count[id] = k + 1
 	}
+	c.ids = out[:n]
+}
+
+// grow makes room in c.count for the ID id.
+func (c *RowCounter) grow(id int32) {
+	c.count = append(c.count, make([]int32, max(int(id)+1-len(c.count), len(c.count)/2, 1024))...)
 }
 
 // Row returns the counted row, encoded in a new buffer, and starts a new
