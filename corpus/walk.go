@@ -383,7 +383,25 @@ func titleOf(s string) string {
 			}
 		}
 	}
+	if plainLine(s) {
+		return cutTitle(s) // most titles: no allocation
+	}
 	return cutTitle(strings.Join(strings.Fields(s), " "))
+}
+
+// plainLine reports whether s is ASCII without control characters, with
+// single spaces between its words and none at either end: then s is its
+// own strings.Join(strings.Fields(s), " ").
+func plainLine(s string) bool {
+	if s == "" || s[0] == ' ' || s[len(s)-1] == ' ' {
+		return false
+	}
+	for i := 0; i < len(s); i++ {
+		if c := s[i]; c >= utf8.RuneSelf || c < ' ' || c == 0x7f || (c == ' ' && s[i+1] == ' ') {
+			return false
+		}
+	}
+	return true
 }
 
 func hasText(s string) bool {
