@@ -218,6 +218,11 @@ func (a *Analyzer) foldAppend(dst, src []byte) []byte {
 // ASCII, or len(s).
 func firstNonASCII(s string) int {
 	i := 0
+	for ; i+32 <= len(s); i += 32 {
+		if (load64(s[i:])|load64(s[i+8:])|load64(s[i+16:])|load64(s[i+24:]))&swarHigh != 0 {
+			break
+		}
+	}
 	for ; i+8 <= len(s); i += 8 {
 		w := uint64(s[i]) | uint64(s[i+1])<<8 | uint64(s[i+2])<<16 | uint64(s[i+3])<<24 |
 			uint64(s[i+4])<<32 | uint64(s[i+5])<<40 | uint64(s[i+6])<<48 | uint64(s[i+7])<<56
