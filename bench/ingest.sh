@@ -18,7 +18,8 @@
 # labelled "base").
 #
 # What it does: builds assay; makes sure /usr/bin/time (Debian's `time`)
-# is there; generates DEST/gen/gen-N with bench/gen (seed 1; redone when
+# and, with SKLEARN=1, python3-sklearn and python3-snowballstemmer are
+# there (installing them with apt-get); generates DEST/gen/gen-N with bench/gen (seed 1; redone when
 # bench/gen/main.go changes) and fetches SpamAssassin with
 # bench/fetch-corpora.sh when missing; then for each corpus runs
 #
@@ -56,6 +57,10 @@ fi
 if [ ! -x /usr/bin/time ]; then
 	echo "ingest.sh: installing Debian's time (for /usr/bin/time -f %M)" >&2
 	apt-get install -y time >/dev/null
+fi
+if [ "$SKLEARN" = 1 ] && ! "$PY" -c 'import sklearn, snowballstemmer' 2>/dev/null; then
+	echo "ingest.sh: installing Debian's python3-sklearn and python3-snowballstemmer" >&2
+	apt-get install -y python3-sklearn python3-snowballstemmer >/dev/null
 fi
 
 # The corpora: name, folder, extension of the files scikit-learn reads ("" = skip it).
