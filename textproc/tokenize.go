@@ -282,7 +282,7 @@ func (t *tokenizer) asciiBlock(b string) bool {
 		ne++
 	}
 	refs := slices.Grow(t.refs, ne-ns)
-	s := 0 // the next start in at
+	s, first := 0, ns // the next start in at; the first end that closes a word of this block
 	if t.inWord && ne > ns {
 		// The word from before ends in this block.
 		e := int(at[ns])
@@ -292,17 +292,10 @@ func (t *tokenizer) asciiBlock(b string) bool {
 		}
 		refs = append(refs, tokRef{start: t.wstart, end: l + e, kind: tokWord, script: sc})
 		t.inWord = false
-		for k := ns + 1; k < ne; k++ {
-			st, e := int(at[s]), int(at[k])
-			sc := scriptNone
-			if alpha&(uint64(1)<<e-1)>>st != 0 {
-				sc = scriptLatin
-			}
-			refs = append(refs, tokRef{start: l + st, end: l + e, kind: tokWord, script: sc})
-			s++
-		}
-	} else if !t.inWord {
-		for k := ns; k < ne; k++ {
+		first++
+	}
+	if !t.inWord {
+		for k := first; k < ne; k++ {
 			st, e := int(at[s]), int(at[k])
 			sc := scriptNone
 			if alpha&(uint64(1)<<e-1)>>st != 0 {
