@@ -224,9 +224,7 @@ func firstNonASCII(s string) int {
 		}
 	}
 	for ; i+8 <= len(s); i += 8 {
-		w := uint64(s[i]) | uint64(s[i+1])<<8 | uint64(s[i+2])<<16 | uint64(s[i+3])<<24 |
-			uint64(s[i+4])<<32 | uint64(s[i+5])<<40 | uint64(s[i+6])<<48 | uint64(s[i+7])<<56
-		if w&0x8080808080808080 != 0 {
+		if load64(s[i:])&swarHigh != 0 {
 			break
 		}
 	}

@@ -334,8 +334,7 @@ func (t *tokenizer) asciiWords(text string, i int) int {
 	arena, refs := t.arena, t.refs
 	inWord, wstart, wscript := t.inWord, t.wstart, t.wscript
 	for i+8 <= len(text) {
-		x := uint64(text[i]) | uint64(text[i+1])<<8 | uint64(text[i+2])<<16 | uint64(text[i+3])<<24 |
-			uint64(text[i+4])<<32 | uint64(text[i+5])<<40 | uint64(text[i+6])<<48 | uint64(text[i+7])<<56
+		x := load64(text[i:])
 		x7 := x &^ swarHigh
 		upper := swarAtLeast(x7, 'A') &^ swarAtLeast(x7, 'Z'+1)
 		alpha := (upper | swarAtLeast(x7, 'a')&^swarAtLeast(x7, 'z'+1)) &^ x & swarHigh
