@@ -174,3 +174,33 @@ func TestWeightBlocksSameBits(t *testing.T) {
 		}
 	}
 }
+
+// Weight shares the pattern of the counts and leaves their values alone, so
+// that one Counts can be weighted again, in any weighting, with the same
+// result as the first time (common practice, no outside source).
+func TestWeightSharesPatternKeepsCounts(t *testing.T) {
+	var b Builder
+	b.AddRow(map[string]int{"a": 3, "b": 1})
+	b.AddRow(map[string]int{"a": 1, "d": 4})
+	b.AddRow(map[string]int{"a": 1, "b": 2, "c": 7})
+	c, err := b.Build(Pruning{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	raw := c.Matrix.RawMatrix()
+	counts := append([]float64(nil), raw.Data...)
+	first := append([]float64(nil), Weight(c, DefaultWeighting).RawMatrix().Data...)
+	other := Weight(c, Weighting{TF: TFRaw, IDF: IDFNone, Norm: NormNone}).RawMatrix()
+	if !slices.Equal(other.Data, counts) {
+		t.Errorf("raw, unweighted values %v, want the counts %v", other.Data, counts)
+	}
+	if &other.Ind[0] != &raw.Ind[0] || &other.Indptr[0] != &raw.Indptr[0] {
+		t.Error("the weighted matrix has its own copy of the pattern")
+	}
+	if !slices.Equal(raw.Data, counts) {
+		t.Errorf("counts after weighting %v, want %v", raw.Data, counts)
+	}
+	if again := Weight(c, DefaultWeighting).RawMatrix().Data; !slices.Equal(again, first) {
+		t.Errorf("second default weighting %v, want %v", again, first)
+	}
+}
