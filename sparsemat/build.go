@@ -430,6 +430,16 @@ func uvarint(b []byte, p int) (uint64, int) {
 	return v, p + n
 }
 
+// pruneGapShare: Build fills the matrix in one pass over the rows when
+// pruning drops at most one entry in pruneGapShare; the column-index and
+// value arrays then keep room for the dropped entries, at most 1/8 more
+// than the matrix needs. Measured: pruning (min-df 2, max-df 0.5) drops
+// 5.5% of the entries of the generated 100,000-document corpus and 11.7%
+// of SpamAssassin's; on the first the build after the walk went from
+// 0.45 to 0.41 s (0.84 to 0.72 s of CPU), for 12 MiB more at the peak
+// (359 against 347 MiB, bound 402).
+const pruneGapShare = 8
+
 // buildBlockRows is the number of rows a goroutine of Build takes at a
 // time. Each row is computed by one goroutine on its own, so the split
 // changes only the speed, never the result.
@@ -587,39 +597,47 @@ func (b *Builder) Build(p Pruning) (*Counts, error) {
 	}
 	keep, df = nil, nil
 
-	// The kept entries of each row give the row pointers; then each row
-	// is remapped, sorted and written in its place.
+	// Each row is remapped, sorted and written at start[i]. When pruning
+	// drops few entries (one in pruneGapShare or fewer: the terms of one
+	// document and a few in most of them), each row is written where it would
+	// start unpruned and the rows are then moved up over the gaps, one
+	// pass over the encoded rows instead of two. Otherwise a first pass
+	// counts the kept entries of each row, so that every row is written in
+	// its place and the arrays are never larger than the matrix.
+	total := 0
+	for _, n := range b.rowLen {
+		total += int(n)
+	}
 	rowNNZ := make([]int32, m)
-	b.parallelRows(func(lo, hi, _ int) {
-		var buf []entry
-		for i := lo; i < hi; i++ {
-			buf = b.decodeRow(i, buf[:0])
-			n := int32(0)
-			for _, e := range buf {
-				if newID[e.id] >= 0 {
-					n++
+	start := make([]int, m)
+	size := nnz
+	if total-nnz <= total/pruneGapShare {
+		size = total
+		for i, s := 0, 0; i < m; i++ {
+			start[i] = s
+			s += int(b.rowLen[i])
+		}
+	} else {
+		b.parallelRows(func(lo, hi, _ int) {
+			var buf []entry
+			for i := lo; i < hi; i++ {
+				buf = b.decodeRow(i, buf[:0])
+				n := int32(0)
+				for _, e := range buf {
+					if newID[e.id] >= 0 {
+						n++
+					}
 				}
+				rowNNZ[i] = n
 			}
-			rowNNZ[i] = n
+		})
+		for i, s := 0, 0; i < m; i++ {
+			start[i] = s
+			s += int(rowNNZ[i])
 		}
-	})
-	start := make([]int, m) // offset of each row's entries in ja
-	ia := make([]int, 1, m+1)
-	for i, n := range rowNNZ {
-		start[i] = ia[len(ia)-1]
-		if n == 0 {
-			c.EmptyRows = append(c.EmptyRows, i)
-			continue
-		}
-		ia = append(ia, start[i]+int(n))
-		c.Rows = append(c.Rows, i)
 	}
-	rowNNZ = nil
-	if len(c.Rows) == 0 {
-		return nil, ErrNoTerms
-	}
-	ja := make([]int, nnz)
-	data := make([]float64, nnz)
+	ja := make([]int, size)
+	data := make([]float64, size)
 	idBits := bits.Len(uint(len(c.Terms) - 1))
 	b.parallelRows(func(lo, hi, _ int) {
 		var buf []entry
@@ -639,8 +657,34 @@ func (b *Builder) Build(p Pruning) (*Counts, error) {
 				data[k] = float64(uint32(v))
 				k++
 			}
+			rowNNZ[i] = int32(len(packed))
 		}
 	})
+	if size > nnz {
+		at := 0
+		for i, n := range rowNNZ {
+			if s := start[i]; s != at {
+				copy(ja[at:at+int(n)], ja[s:s+int(n)])
+				copy(data[at:at+int(n)], data[s:s+int(n)])
+			}
+			at += int(n)
+		}
+		ja, data = ja[:nnz], data[:nnz]
+	}
+	start = nil
+	ia := make([]int, 1, m+1)
+	for i, n := range rowNNZ {
+		if n == 0 {
+			c.EmptyRows = append(c.EmptyRows, i)
+			continue
+		}
+		ia = append(ia, ia[len(ia)-1]+int(n))
+		c.Rows = append(c.Rows, i)
+	}
+	rowNNZ = nil
+	if len(c.Rows) == 0 {
+		return nil, ErrNoTerms
+	}
 	c.Matrix = sparse.NewCSR(len(c.Rows), len(c.Terms), ia, ja, data)
 	return c, nil
 }

@@ -2,6 +2,8 @@ package sparsemat
 
 import (
 	"errors"
+	"fmt"
+	"math/rand/v2"
 	"slices"
 	"testing"
 )
@@ -96,5 +98,114 @@ func TestBuildIndependentOfInsertionOrder(t *testing.T) {
 	}
 	if c1.Matrix.At(0, 0) != 2 || c2.Matrix.At(1, 0) != 2 {
 		t.Fatal("the count of a is not in column 0")
+	}
+}
+
+// Build against the matrix computed straight from its definition (df by
+// counting documents, kept terms in byte order, each row's kept counts),
+// with pruning that drops no entry, a few (the one-pass fill that moves
+// rows up over gaps) and many (the fill after a counting pass). Common
+// practice, no outside source.
+func TestBuildMatchesDirectCount(t *testing.T) {
+	r := rand.New(rand.NewPCG(3, 9))
+	docs := make([]map[string]int, 3000)
+	for i := range docs {
+		d := map[string]int{}
+		for range 1 + r.IntN(40) {
+			// Frequent terms, a common one, and terms of one document.
+			switch x := r.IntN(100); {
+			case x < 2:
+				d[fmt.Sprintf("once%d-%d", i, x)]++
+			case x < 10:
+				d["common"] += 1 + r.IntN(3)
+			default:
+				d[fmt.Sprintf("w%d", r.IntN(400))]++
+			}
+		}
+		if i%97 == 0 {
+			d = map[string]int{fmt.Sprintf("alone%d", i): 2} // a row that min-df empties
+		}
+		docs[i] = d
+	}
+	var b Builder
+	for _, d := range docs {
+		b.AddRow(d)
+	}
+	for _, tc := range []struct {
+		name   string
+		p      Pruning
+		lo, hi float64 // share of the entries pruning drops
+	}{
+		{"none", Pruning{}, 0, 0},
+		{"few", Pruning{MinDF: 2}, 1e-6, 1.0 / pruneGapShare},
+		{"many", Pruning{MinDF: 2, MaxDFShare: 0.045}, 1.0 / pruneGapShare, 1},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			df := map[string]int{}
+			total := 0
+			for _, d := range docs {
+				for term := range d {
+					df[term]++
+					total++
+				}
+			}
+			maxDF := len(docs)
+			if tc.p.MaxDFShare > 0 {
+				maxDF = int(tc.p.MaxDFShare * float64(len(docs)))
+			}
+			var terms []string
+			for term, n := range df {
+				if n >= tc.p.MinDF && n <= maxDF {
+					terms = append(terms, term)
+				}
+			}
+			slices.Sort(terms)
+			col := map[string]int{}
+			kept := 0
+			for j, term := range terms {
+				col[term] = j
+				kept += df[term]
+			}
+			if share := float64(total-kept) / float64(total); share < tc.lo || share > tc.hi {
+				t.Fatalf("pruning drops %.4f of the entries, outside [%g, %g]: the case does not test what it says", share, tc.lo, tc.hi)
+			}
+			c, err := b.Build(tc.p)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !slices.Equal(c.Terms, terms) {
+				t.Fatalf("%d terms, want %d", len(c.Terms), len(terms))
+			}
+			checkCSR(t, c.Matrix)
+			raw := c.Matrix.RawMatrix()
+			var rows, empty, ia, ja []int
+			var data []float64
+			ia = append(ia, 0)
+			for i, d := range docs {
+				var js []int
+				for term := range d {
+					if j, ok := col[term]; ok {
+						js = append(js, j)
+					}
+				}
+				if len(js) == 0 {
+					empty = append(empty, i)
+					continue
+				}
+				slices.Sort(js)
+				for _, j := range js {
+					ja = append(ja, j)
+					data = append(data, float64(d[terms[j]]))
+				}
+				ia = append(ia, len(ja))
+				rows = append(rows, i)
+			}
+			if !slices.Equal(c.Rows, rows) || !slices.Equal(c.EmptyRows, empty) {
+				t.Fatalf("rows %d, empty %v; want %d, %v", len(c.Rows), c.EmptyRows, len(rows), empty)
+			}
+			if !slices.Equal(raw.Indptr, ia) || !slices.Equal(raw.Ind, ja) || !slices.Equal(raw.Data, data) {
+				t.Fatal("the matrix differs from the direct count")
+			}
+		})
 	}
 }
