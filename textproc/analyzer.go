@@ -80,6 +80,7 @@ type tokMemo struct {
 	tail   uint64 // of a token longer than wKey: tailWord, its bytes after the slot's
 	pieces int32  // detection: pieces between apostrophes
 	multi  int32  // detection: 1 + index in Analyzer.multi of the stop counts of a token of several pieces; 0 when it has none
+	ent    int32  // index in Analyzer.entries of the analysis in the slot's language (wslot.lang)
 }
 
 // memoEntry is the analysis of one distinct token in one language. term
@@ -341,7 +342,7 @@ func (a *Analyzer) countWord(ids []int32, si int32, li int) []int32 {
 	// The common case: the slot's own analysis.
 	if s.id == idUnknown {
 		s.id = idDropped
-		if e := &a.entries[s.ent]; e.term != "" {
+		if e := &a.entries[a.toks[s.ti].ent]; e.term != "" {
 			if e.id < 0 {
 				e.id = a.opts.TermID(e.term)
 			}
@@ -424,7 +425,7 @@ func (a *Analyzer) takeForms(entry func(e *memoEntry), plain func(term, surface 
 func (a *Analyzer) settleCounts() {
 	for i := range a.words.slots {
 		if s := &a.words.slots[i]; s.n > 0 {
-			a.entries[s.ent].n += s.n
+			a.entries[a.toks[s.ti].ent].n += s.n
 			s.n = 0
 		}
 	}
@@ -535,7 +536,7 @@ func (a *Analyzer) probe() {
 		if n <= wKey {
 			x, y := paddedWords(arena[ref.start:ref.start+headBytes], n)
 			i := hashHead(x, y, n) & mask
-			if sx, sy := slots[i].head(); sx == x && sy == y|uint32(n)<<24 {
+			if sx, sy := slots[i].head(); sx == x && sy == y|uint64(n)<<56 {
 				si = int32(i)
 			}
 		}
@@ -582,11 +583,11 @@ func (a *Analyzer) newToken(i int, b []byte, sc script) {
 		tm.tail = tailWord(b)
 	}
 	s := wslot{lang: noLang, marks: f.marks, ti: int32(len(a.toks)), id: idUnknown}
-	s.klen = uint8(len(b))
+	copy(s.key[:wKey], b)
+	s.key[wKey] = uint8(len(b))
 	if len(b) > wKey {
-		s.klen = wLong
+		s.key[wKey] = wLong
 	}
-	copy(s.key[:], b)
 	var counts [numStemmed]int32
 	hits := 0
 	for l, n := range f.stops {
@@ -625,11 +626,12 @@ func (a *Analyzer) newEntry(e memoEntry) int32 {
 func (a *Analyzer) wordEntry(si int32, li int) int32 {
 	s := &a.words.slots[si]
 	if int(s.lang) == li {
-		return s.ent
+		return a.toks[s.ti].ent
 	}
 	if s.lang == noLang {
-		s.lang, s.ent = uint8(li), a.newEntry(a.analyzeWord(&langTable[li], a.toks[s.ti].key))
-		return s.ent
+		tm := &a.toks[s.ti]
+		s.lang, tm.ent = uint8(li), a.newEntry(a.analyzeWord(&langTable[li], tm.key))
+		return tm.ent
 	}
 	key := uint64(s.ti)<<8 | uint64(li)
 	if e, ok := a.more[key]; ok {

@@ -1,8 +1,12 @@
 package textproc_test
 
 import (
+	"io/fs"
 	"math"
 	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"slices"
 	"strings"
 	"sync"
 	"testing"
@@ -173,6 +177,58 @@ func BenchmarkAnalyzeCorpus(b *testing.B) {
 					}
 				})
 			}
+		}
+	}
+}
+
+// BenchmarkAnalyzeFolder runs AnalyzeIDs (English, stemming on) over the
+// first 40,000 files, in byte order of their paths, of the folder that
+// ASSAY_ANALYZE_DIR names, with a memo warmed by one pass over them: one
+// ingest worker's steady state on a real corpus, say bench/gen's or
+// SpamAssassin's (bench/README.md). It is skipped when the variable is
+// unset. MB/s is of the files' bytes.
+func BenchmarkAnalyzeFolder(b *testing.B) {
+	root := os.Getenv("ASSAY_ANALYZE_DIR")
+	if root == "" {
+		b.Skip("ASSAY_ANALYZE_DIR is not set")
+	}
+	var files []string
+	err := filepath.WalkDir(root, func(p string, d fs.DirEntry, err error) error {
+		if err == nil && d.Type().IsRegular() {
+			files = append(files, p)
+		}
+		return err
+	})
+	if err != nil {
+		b.Fatal(err)
+	}
+	slices.Sort(files)
+	var docs []string
+	for _, f := range files[:min(len(files), 40000)] {
+		text, err := os.ReadFile(f)
+		if err != nil {
+			b.Fatal(err)
+		}
+		docs = append(docs, string(text))
+	}
+	vocab := map[string]int32{}
+	a := textproc.NewAnalyzer(textproc.Options{Lang: textproc.English, TermID: func(t string) int32 {
+		id, ok := vocab[t]
+		if !ok {
+			id = int32(len(vocab))
+			vocab[t] = id
+		}
+		return id
+	}})
+	var ids []int32
+	for _, d := range docs {
+		ids, _ = a.AnalyzeIDs(d, ids[:0])
+	}
+	b.SetBytes(corpusBytes(docs))
+	b.ReportAllocs()
+	for b.Loop() {
+		for _, d := range docs {
+			ids, _ = a.AnalyzeIDs(d, ids[:0])
 		}
 	}
 }

@@ -18,7 +18,8 @@ import (
 //
 // Slots of 64 bytes holding tokens of up to 43 bytes were tried: 1.5%
 // less CPU on the 100,000-document generated corpus, for twice the
-// memory.
+// memory. A 32-byte slot holds tokens of up to 15 bytes, which leaves
+// 0.08% of that corpus's tokens to the long-token search (3.8% at 11).
 type wordTable struct {
 	slots []wslot
 	used  int
@@ -29,17 +30,17 @@ var slotsPerPage = max(1, os.Getpagesize()/int(unsafe.Sizeof(wslot{})))
 
 // wKey is the longest token a slot holds; longer ones are compared with
 // the memo record's copy (tokMemo.key).
-const wKey = 11
+const wKey = 15
 
 // headBytes is how many bytes paddedWords loads: a token's first wKey
-// bytes and one more. Analyzer.tokenize leaves that much room after the
+// bytes and one more (two 64-bit words). Analyzer.tokenize leaves that much room after the
 // last token of its arena, so that the probe can load any token's head
 // words in place.
 const headBytes = wKey + 1
 
 // Special values of wslot fields.
 const (
-	wLong      = 255 // klen of a token longer than wKey
+	wLong      = 255 // length byte of a token longer than wKey
 	noLang     = 255 // lang of a token not analysed yet
 	manyPieces = 255 // pieces: the detection facts are in the tokMemo
 	idUnknown  = -2  // id: Options.TermID not asked yet
@@ -48,17 +49,22 @@ const (
 
 // wslot is one slot of a wordTable: 32 bytes.
 type wslot struct {
-	key    [wKey]byte // the token, padded with zeros (its first wKey bytes when longer)
-	klen   uint8      // 0 for an empty slot, the token's length, or wLong
-	lang   uint8      // index in langTable of the cached analysis, or noLang
-	pieces uint8      // detection: pieces between apostrophes, or manyPieces
-	stops  uint8      // detection: candidates whose stop list holds the token (one piece)
-	marks  uint8      // detection: candidates a letter of the token marks
-	id     int32      // term ID of the cached analysis, idDropped or idUnknown
-	ent    int32      // index in Analyzer.entries of the cached analysis
-	ti     int32      // index in Analyzer.toks
-	n      int32      // occurrences of the cached analysis counted by AnalyzeIDs
+	// key holds the token, padded with zeros (its first wKey bytes when
+	// longer), and in its last byte (klen) 0 for an empty slot, the
+	// token's length, or wLong.
+	key    [wKey + 1]byte
+	lang   uint8 // index in langTable of the cached analysis, or noLang
+	pieces uint8 // detection: pieces between apostrophes, or manyPieces
+	stops  uint8 // detection: candidates whose stop list holds the token (one piece)
+	marks  uint8 // detection: candidates a letter of the token marks
+	id     int32 // term ID of the cached analysis, idDropped or idUnknown
+	ti     int32 // index in Analyzer.toks (whose ent is the cached analysis)
+	n      int32 // occurrences of the cached analysis counted by AnalyzeIDs
 }
+
+// klen returns the length byte of the slot: 0 when empty, the token's
+// length, or wLong.
+func (s *wslot) klen() uint8 { return s.key[wKey] }
 
 // Hash constants of hashToken.
 const hk0, hk1, hk2 = 0x9e3779b97f4a7c15, 0xbf58476d1ce4e5b9, 0x94d049bb133111eb
@@ -92,16 +98,16 @@ func hashToken(b []byte) uint64 {
 
 // hashHead is hashToken of a token of n <= wKey bytes whose head words are
 // x and y.
-func hashHead(x uint64, y uint32, n int) uint64 {
-	hi, lo := bits.Mul64(x^hk0^uint64(n), uint64(y)^hk1)
+func hashHead(x, y uint64, n int) uint64 {
+	hi, lo := bits.Mul64(x^hk0^uint64(n), y^hk1)
 	return hi ^ lo
 }
 
 // headWords returns the head words of a token b of at most wKey bytes:
-// its bytes 0 to 7 and 8 to 10, little-endian and padded with zeros.
+// its bytes 0 to 7 and 8 to 14, little-endian and padded with zeros.
 // wslot.head reads the same words from a slot that holds b, with the
 // token's length in the top byte of the second.
-func headWords(b []byte) (x uint64, y uint32) {
+func headWords(b []byte) (x, y uint64) {
 	var p [headBytes]byte
 	copy(p[:], b)
 	return paddedWords(p[:], len(b))
@@ -109,22 +115,21 @@ func headWords(b []byte) (x uint64, y uint32) {
 
 // paddedWords returns headWords(p[:n]) for an n <= wKey and a p of at
 // least headBytes bytes, of which the bytes from n on are ignored.
-func paddedWords(p []byte, n int) (x uint64, y uint32) {
+func paddedWords(p []byte, n int) (x, y uint64) {
 	x = binary.LittleEndian.Uint64(p)
-	y = binary.LittleEndian.Uint32(p[8:])
+	y = binary.LittleEndian.Uint64(p[8:])
 	if n < 8 {
 		return x & (1<<(8*n) - 1), 0
 	}
 	return x, y & (1<<(8*(n-8)) - 1)
 }
 
-// head returns the first 12 bytes of the slot: key[0:8], and key[8:11]
-// with klen in the top byte. A slot holds a token of n <= wKey bytes with
-// head words x and y exactly when head returns x and y | n<<24 (the key
+// head returns the slot's key as two words: bytes 0 to 7, and 8 to 15,
+// whose top byte is klen. A slot holds a token of n <= wKey bytes with
+// head words x and y exactly when head returns x and y | n<<56 (the key
 // is padded with zeros).
-func (s *wslot) head() (uint64, uint32) {
-	return binary.LittleEndian.Uint64(s.key[:8]),
-		uint32(s.key[8]) | uint32(s.key[9])<<8 | uint32(s.key[10])<<16 | uint32(s.klen)<<24
+func (s *wslot) head() (uint64, uint64) {
+	return binary.LittleEndian.Uint64(s.key[:8]), binary.LittleEndian.Uint64(s.key[8:])
 }
 
 // find returns the index of the slot of tok: the slot that holds it, or
@@ -134,10 +139,10 @@ func (t *wordTable) find(tok []byte, h uint64, toks []tokMemo) (int, bool) {
 	mask := uint64(len(t.slots) - 1)
 	if len(tok) <= wKey {
 		x, y := headWords(tok)
-		y |= uint32(len(tok)) << 24
+		y |= uint64(len(tok)) << 56
 		for i := h & mask; ; i = (i + 1) & mask {
 			s := &t.slots[i]
-			if s.klen == 0 {
+			if s.klen() == 0 {
 				return int(i), false
 			}
 			if sx, sy := s.head(); sx == x && sy == y {
@@ -150,11 +155,11 @@ func (t *wordTable) find(tok []byte, h uint64, toks []tokMemo) (int, bool) {
 	// length of its copy of the token, and only a token longer than that
 	// has the rest compared with the copy's bytes (one cache miss less).
 	x, y := headWords(tok[:wKey])
-	y |= wLong << 24
+	y |= wLong << 56
 	tail := tailWord(tok)
 	for i := h & mask; ; i = (i + 1) & mask {
 		s := &t.slots[i]
-		if s.klen == 0 {
+		if s.klen() == 0 {
 			return int(i), false
 		}
 		if sx, sy := s.head(); sx == x && sy == y {
@@ -188,10 +193,10 @@ func (t *wordTable) grow(toks []tokMemo) {
 	old := t.slots
 	t.slots = make([]wslot, max(2*len(old), 1024))
 	for i := 0; i < len(t.slots); i += slotsPerPage {
-		t.slots[i].klen = 0
+		t.slots[i].key[wKey] = 0
 	}
 	for i := range old {
-		if s := &old[i]; s.klen != 0 {
+		if s := &old[i]; s.klen() != 0 {
 			t.slots[t.slotOf(s, toks)] = *s
 		}
 	}
@@ -200,8 +205,8 @@ func (t *wordTable) grow(toks []tokMemo) {
 // slotOf returns where the token of slot s (of this table or an older
 // one) is, or belongs, in the table.
 func (t *wordTable) slotOf(s *wslot, toks []tokMemo) int {
-	key := s.key[:min(int(s.klen), wKey)]
-	if s.klen == wLong {
+	key := s.key[:min(int(s.klen()), wKey)]
+	if s.klen() == wLong {
 		key = []byte(toks[s.ti].key)
 	}
 	i, _ := t.find(key, hashToken(key), toks)

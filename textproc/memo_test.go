@@ -4,6 +4,7 @@ import (
 	"math/rand/v2"
 	"strings"
 	"testing"
+	"unsafe"
 )
 
 // The probe of the memo (Analyzer.probe) hashes and compares a token by
@@ -33,15 +34,15 @@ func TestPaddedWordsMatchHeadWords(t *testing.T) {
 		}
 		// A slot holding tok gives the same head, with the length on top.
 		var s wslot
-		copy(s.key[:], tok)
-		s.klen = uint8(n)
-		if sx, sy := s.head(); sx != x || sy != y|uint32(n)<<24 {
-			t.Fatalf("length %d: slot head %x %x, token %x %x", n, sx, sy, x, y|uint32(n)<<24)
+		copy(s.key[:wKey], tok)
+		s.key[wKey] = uint8(n)
+		if sx, sy := s.head(); sx != x || sy != y|uint64(n)<<56 {
+			t.Fatalf("length %d: slot head %x %x, token %x %x", n, sx, sy, x, y|uint64(n)<<56)
 		}
 		// A token that is a prefix of another, or differs in one byte,
 		// has other head words.
 		if n > 1 {
-			if px, py := headWords(tok[:n-1]); px == x && py|uint32(n-1)<<24 == y|uint32(n)<<24 {
+			if px, py := headWords(tok[:n-1]); px == x && py|uint64(n-1)<<56 == y|uint64(n)<<56 {
 				t.Fatalf("length %d: a prefix has the same head", n)
 			}
 		}
@@ -112,7 +113,7 @@ func TestProbeFindsWhatFindFinds(t *testing.T) {
 func TestLongTokensTellApart(t *testing.T) {
 	a := NewAnalyzer(Options{})
 	r := rand.New(rand.NewPCG(8, 9))
-	head := "abcdefghijk" // wKey bytes
+	head := "abcdefghijklmno" // wKey bytes
 	seen := map[string]int32{}
 	var toks []string
 	for n := wKey + 1; n <= wKey+20; n++ {
@@ -140,5 +141,13 @@ func TestLongTokensTellApart(t *testing.T) {
 	}
 	if a.words.used != len(seen) {
 		t.Fatalf("%d slots used for %d distinct tokens", a.words.used, len(seen))
+	}
+}
+
+// A slot is half a 64-byte cache line, so that a look-up reads one line;
+// the layout of wslot is chosen for it (a guard, not a correctness check).
+func TestSlotIs32Bytes(t *testing.T) {
+	if n := unsafe.Sizeof(wslot{}); n != 32 {
+		t.Fatalf("wslot is %d bytes, want 32", n)
 	}
 }
