@@ -203,10 +203,13 @@ func (v *Vocabulary) byID() []string {
 // unsigned varints (the term ID and the count minus one, see appendEntry),
 // 3 to 4 bytes where an int32 pair takes 8, in slabs that are never copied
 // to grow. Build decodes them, so adding a row costs little more than
-// writing it down.
+// writing it down. A row that one of the builder's own row counters
+// (NewRowCounter) made is not even copied: the builder takes the slab the
+// counter wrote it in.
 type Builder struct {
 	vocab Vocabulary
 	slabs [][]byte // encoded rows; a row never spans two slabs
+	own   int      // 1 + index in slabs of the slab AddRow and the like write to; 0 for none yet
 	// rowAt[i] is where row i starts: slab index << 32 | byte offset;
 	// rowLen[i] its number of entries.
 	rowAt  []uint64
@@ -233,6 +236,9 @@ type entry struct {
 // slabSize is the size of an encoding slab. A row longer than a slab
 // gets a slab of its own.
 const slabSize = 1 << 20
+
+// rowSlabFirst is the size of a RowCounter's first slab.
+const rowSlabFirst = 4 << 10
 
 // Vocabulary returns the builder's vocabulary: the IDs that
 // [Builder.AddRowIDs] and [Builder.AddCounted] take.
@@ -287,6 +293,20 @@ func (b *Builder) AddCounted(r Row) {
 		panic(errCountedOutside)
 	}
 	b.tally(r)
+	if r.ctr != nil && r.ctr.b == b {
+		// The builder's own counter: the row stays in the counter's slab,
+		// which the builder adopts when it first sees it (the slab's id is
+		// only read and written here, by the builder's goroutine, and the
+		// bytes are read by Build, after every counter is done).
+		sl := r.slab
+		if sl.id < 0 {
+			sl.id = int32(len(b.slabs))
+			b.slabs = append(b.slabs, sl.whole)
+		}
+		b.rowAt = append(b.rowAt, uint64(sl.id)<<32|uint64(r.off))
+		b.rowLen = append(b.rowLen, r.n)
+		return
+	}
 	dst := b.reserve(int(r.n))
 	dst = append(dst, r.enc...)
 	b.commit(dst, int(r.n))
@@ -379,17 +399,18 @@ func (b *Builder) dfFromCounters(size int) []int32 {
 // slab when needed.
 func (b *Builder) reserve(n int) []byte {
 	need := 10 * n
-	if len(b.slabs) == 0 || cap(b.slabs[len(b.slabs)-1])-len(b.slabs[len(b.slabs)-1]) < need {
+	if b.own == 0 || cap(b.slabs[b.own-1])-len(b.slabs[b.own-1]) < need {
 		b.slabs = append(b.slabs, make([]byte, 0, max(slabSize, need)))
+		b.own = len(b.slabs)
 	}
-	s := len(b.slabs) - 1
+	s := b.own - 1
 	b.rowAt = append(b.rowAt, uint64(s)<<32|uint64(len(b.slabs[s])))
 	return b.slabs[s]
 }
 
 // commit records the row just written into the current slab.
 func (b *Builder) commit(slab []byte, n int) {
-	b.slabs[len(b.slabs)-1] = slab
+	b.slabs[b.own-1] = slab
 	b.rowLen = append(b.rowLen, int32(n))
 }
 
@@ -723,13 +744,25 @@ func sortEntries(packed, tmp []uint64, idBits int) ([]uint64, []uint64) {
 }
 
 // Row is one document's term counts as a [RowCounter] encodes them for
-// [Builder.AddCounted]: compact, and owned by whoever holds it.
+// [Builder.AddCounted]: compact, and read-only (its bytes sit in the
+// counter's slab, beside the counter's other rows).
 type Row struct {
 	enc   []byte
 	n     int32       // entries
 	maxID int32       // -1 for an empty row
 	ctr   *RowCounter // the counter that made it, when a builder's (NewRowCounter)
 	seq   int32       // its number among ctr's rows
+	slab  *rowSlab    // the slab enc is in
+	off   int32       // where enc starts in it
+}
+
+// rowSlab is a block of memory a RowCounter encodes rows into, one after
+// the other. whole is the block (all of its capacity) and never changes;
+// id is its index in the slabs of the counter's builder once the builder
+// has taken it, -1 before, and belongs to the builder's goroutine.
+type rowSlab struct {
+	whole []byte
+	id    int32
 }
 
 // Len returns the number of distinct terms in the row.
@@ -737,12 +770,15 @@ func (r Row) Len() int { return int(r.n) }
 
 // RowCounter counts the term IDs of one document at a time and encodes
 // them as a [Row], so that the goroutine that analyses a document can do
-// the counting and sorting and the one that owns the [Builder] only
-// copies bytes. Its zero value is ready; it is not safe for concurrent
-// use (give each goroutine its own).
+// the counting and encoding and the one that owns the [Builder] only
+// records where the row is (or copies its bytes, for a counter that is
+// not the builder's). Its zero value is ready; it is not safe for
+// concurrent use (give each goroutine its own).
 type RowCounter struct {
-	count []int32 // by term ID; zero outside the current row
-	ids   []int32 // the row's distinct IDs
+	count []int32  // by term ID; zero outside the current row
+	ids   []int32  // the row's distinct IDs
+	buf   []byte   // the rows encoded so far in slab.whole
+	slab  *rowSlab // where Row writes
 	// Of a counter made by Builder.NewRowCounter: the builder, the
 	// counter's index in it, the rows made and, by term ID, how many of
 	// them hold the term.
@@ -791,17 +827,30 @@ func (c *RowCounter) grow(id int32) {
 	c.count = append(c.count, make([]int32, max(int(id)+1-len(c.count), len(c.count)/2, 1024))...)
 }
 
-// Row returns the counted row, encoded in a new buffer, and starts a new
-// one.
+// Row returns the counted row and starts a new one. The row's bytes are
+// written after the counter's earlier rows in a slab of its own, and never
+// change afterwards.
 func (c *RowCounter) Row() Row {
-	enc := make([]byte, 0, 4*len(c.ids))
+	if need := 10 * len(c.ids); c.slab == nil || cap(c.buf)-len(c.buf) < need {
+		// Slabs start small (a counter may make one row) and double up to
+		// slabSize.
+		size := rowSlabFirst
+		if c.slab != nil {
+			size = min(2*cap(c.buf), slabSize)
+		}
+		c.buf = make([]byte, 0, max(size, need))
+		c.slab = &rowSlab{whole: c.buf[:cap(c.buf)], id: -1}
+	}
+	start := len(c.buf)
+	enc := c.buf
 	maxID := int32(-1)
 	for _, id := range c.ids {
 		enc = appendEntry(enc, id, c.count[id])
 		c.count[id] = 0
 		maxID = max(maxID, id)
 	}
-	r := Row{enc: enc, n: int32(len(c.ids)), maxID: maxID}
+	c.buf = enc
+	r := Row{enc: enc[start:len(enc):len(enc)], n: int32(len(c.ids)), maxID: maxID, slab: c.slab, off: int32(start)}
 	if c.b != nil {
 		if len(c.df) < len(c.count) {
 			c.df = append(c.df, make([]int32, len(c.count)-len(c.df))...)

@@ -32,7 +32,7 @@ func TestAddPathsBuildTheSameMatrix(t *testing.T) {
 			docs[i]["big"] = 1<<31 - 1 // the largest count
 		}
 	}
-	var byMap, byIDs, byCounter Builder
+	var byMap, byIDs, byCounter, byOwn Builder
 	for _, d := range docs {
 		byMap.AddRow(d)
 	}
@@ -41,6 +41,7 @@ func TestAddPathsBuildTheSameMatrix(t *testing.T) {
 	for _, p := range perm {
 		byIDs.Vocabulary().ID(terms[p])
 		byCounter.Vocabulary().ID(terms[p])
+		byOwn.Vocabulary().ID(terms[p])
 	}
 	// sortedRow returns d as sorted IDs of b's vocabulary and counts.
 	sortedRow := func(b *Builder, d map[string]int) (cols, counts []int32) {
@@ -53,21 +54,36 @@ func TestAddPathsBuildTheSameMatrix(t *testing.T) {
 		}
 		return cols, counts
 	}
+	// byOwn takes rows from two of its own counters in turn (which it
+	// does not copy), between rows of AddRowIDs (which it does).
 	var rc RowCounter
-	for _, d := range docs {
+	own := []*RowCounter{byOwn.NewRowCounter(), byOwn.NewRowCounter()}
+	var ownRows []Row
+	for i, d := range docs {
 		byIDs.AddRowIDs(sortedRow(&byIDs, d))
 		if _, ok := d["big"]; ok {
 			// A RowCounter counts one occurrence at a time; this row
 			// goes through AddRowIDs.
 			byCounter.AddRowIDs(sortedRow(&byCounter, d))
+			byOwn.AddRowIDs(sortedRow(&byOwn, d))
 			continue
 		}
+		oc := own[i%2]
 		for term, c := range d {
 			for range c {
 				rc.Add(byCounter.Vocabulary().ID(term))
+				oc.Add(byOwn.Vocabulary().ID(term))
 			}
 		}
 		byCounter.AddCounted(rc.Row())
+		row := oc.Row()
+		byOwn.AddCounted(row)
+		ownRows = append(ownRows, row)
+	}
+	for _, row := range ownRows {
+		if row.n > 0 && !slices.ContainsFunc(byOwn.slabs, func(s []byte) bool { return &s[0] == &row.slab.whole[0] }) {
+			t.Fatal("a row of the builder's own counter was copied")
+		}
 	}
 	for _, p := range []Pruning{{}, {MinDF: 2, MaxDFShare: 0.5}, {MinDF: 3, MaxDFShare: 0.9}} {
 		want, err := byMap.Build(p)
@@ -75,7 +91,7 @@ func TestAddPathsBuildTheSameMatrix(t *testing.T) {
 			t.Fatal(err)
 		}
 		checkCSR(t, want.Matrix)
-		for name, b := range map[string]*Builder{"AddRowIDs": &byIDs, "AddCounted": &byCounter} {
+		for name, b := range map[string]*Builder{"AddRowIDs": &byIDs, "AddCounted": &byCounter, "AddCounted, own counters": &byOwn} {
 			got, err := b.Build(p)
 			if err != nil {
 				t.Fatal(err)
