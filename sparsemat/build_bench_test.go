@@ -93,27 +93,15 @@ func BenchmarkBuild(b *testing.B) {
 }
 
 // BenchmarkBuildPrune is the Build step alone on the same rows.
-func BenchmarkBuildPrune(b *testing.B) {
-	maps, _ := benchRows(benchM, benchN, benchTokens)
-	var bl Builder
-	nnz := 0
-	for _, r := range maps {
-		bl.AddRow(r)
-		nnz += len(r)
-	}
-	b.SetBytes(int64(8 * nnz))
-	b.ReportAllocs()
-	for b.Loop() {
-		if _, err := bl.Build(Pruning{MinDF: 2, MaxDFShare: 0.5}); err != nil {
-			b.Fatal(err)
-		}
-	}
-}
+func BenchmarkBuildPrune(b *testing.B) { benchBuild(b, Pruning{MinDF: 2, MaxDFShare: 0.5}) }
 
 // BenchmarkBuildPruneFew is BenchmarkBuildPrune with min-df 2 alone, which
 // drops about 1% of the entries (the terms of a single row), as on the
 // generated and SpamAssassin corpora (5.5% and 11.7%): the one-pass fill.
-func BenchmarkBuildPruneFew(b *testing.B) {
+func BenchmarkBuildPruneFew(b *testing.B) { benchBuild(b, Pruning{MinDF: 2}) }
+
+// benchBuild times Build with pruning p on the rows of BenchmarkBuild.
+func benchBuild(b *testing.B, p Pruning) {
 	maps, _ := benchRows(benchM, benchN, benchTokens)
 	var bl Builder
 	nnz := 0
@@ -124,7 +112,7 @@ func BenchmarkBuildPruneFew(b *testing.B) {
 	b.SetBytes(int64(8 * nnz))
 	b.ReportAllocs()
 	for b.Loop() {
-		if _, err := bl.Build(Pruning{MinDF: 2}); err != nil {
+		if _, err := bl.Build(p); err != nil {
 			b.Fatal(err)
 		}
 	}
