@@ -634,10 +634,7 @@ func (b *Builder) Build(p Pruning) (*Counts, error) {
 	size := nnz
 	if total-nnz <= total/pruneGapShare {
 		size = total
-		for i, s := 0, 0; i < m; i++ {
-			start[i] = s
-			s += int(b.rowLen[i])
-		}
+		copy(rowNNZ, b.rowLen) // room for every entry; the fill sets the kept counts
 	} else {
 		b.parallelRows(func(lo, hi, _ int) {
 			var buf []entry
@@ -652,10 +649,10 @@ func (b *Builder) Build(p Pruning) (*Counts, error) {
 				rowNNZ[i] = n
 			}
 		})
-		for i, s := 0, 0; i < m; i++ {
-			start[i] = s
-			s += int(rowNNZ[i])
-		}
+	}
+	for i, s := 0, 0; i < m; i++ {
+		start[i] = s
+		s += int(rowNNZ[i])
 	}
 	ja := make([]int, size)
 	data := make([]float64, size)

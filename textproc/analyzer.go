@@ -625,11 +625,11 @@ func (a *Analyzer) newEntry(e memoEntry) int32 {
 // first language's analysis, the others are found through a.more.
 func (a *Analyzer) wordEntry(si int32, li int) int32 {
 	s := &a.words.slots[si]
+	tm := &a.toks[s.ti]
 	if int(s.lang) == li {
-		return a.toks[s.ti].ent
+		return tm.ent
 	}
 	if s.lang == noLang {
-		tm := &a.toks[s.ti]
 		s.lang, tm.ent = uint8(li), a.newEntry(a.analyzeWord(&langTable[li], tm.key))
 		return tm.ent
 	}
@@ -637,7 +637,7 @@ func (a *Analyzer) wordEntry(si int32, li int) int32 {
 	if e, ok := a.more[key]; ok {
 		return e
 	}
-	e := a.newEntry(a.analyzeWord(&langTable[li], a.toks[s.ti].key))
+	e := a.newEntry(a.analyzeWord(&langTable[li], tm.key))
 	if a.more == nil {
 		a.more = make(map[uint64]int32)
 	}
