@@ -16,7 +16,7 @@
 # instead of building cmd/assay; BASE another assay binary to run the same
 # picks with, side by side (a before/after comparison; its rows are
 # labelled "base"), the two taking turns at running first; WARMUP (1) read
-# each corpus's files and run one untimed pick on it before its cell.
+# each corpus's files and run one small untimed pick on it before its cell.
 #
 # What it does: builds assay; makes sure /usr/bin/time (Debian's `time`)
 # and, with SKLEARN=1, python3-sklearn and python3-snowballstemmer are
@@ -139,7 +139,7 @@ for run in $(seq "$RUNS"); do
 		# 10k, 5.05 s against 3.8 s at 100k), whichever binary ran first.
 		if [ "$WARMUP" = 1 ]; then
 			find "$dir" -type f -print0 | xargs -0 cat >/dev/null
-			"$ASSAY" pick "$dir" --format json -q --lang english >/dev/null
+			"$ASSAY" pick "$dir" --format json -q --lang english --near-dup off --docs 2 --terms 2 --curve-max 2 >/dev/null
 		fi
 		# With a BASE, the two binaries take turns at running first.
 		tools="assay ${BASE:+base}"
