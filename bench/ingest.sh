@@ -134,9 +134,10 @@ for run in $(seq "$RUNS"); do
 		read -r name dir ext <<<"$c"
 		echo "ingest.sh: run $run/$RUNS: $name" >&2
 		# Before each cell: the corpus's files read once into the page cache
-		# and one pick whose figures are dropped. Without it the first pick of
-		# a cell was often much slower than the rest (0.96 s against 0.63 s at
-		# 10k, 5.05 s against 3.8 s at 100k), whichever binary ran first.
+		# and one small pick whose figures are dropped. Without it the first
+		# pick of a cell, by the binary that always ran first, was often much
+		# slower than the rest (0.96 s against 0.63 s at 10k, 5.05 s against
+		# 3.8 s at 100k).
 		if [ "$WARMUP" = 1 ]; then
 			find "$dir" -type f -print0 | xargs -0 cat >/dev/null
 			"$ASSAY" pick "$dir" --format json -q --lang english --near-dup off --docs 2 --terms 2 --curve-max 2 >/dev/null
