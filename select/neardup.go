@@ -187,39 +187,59 @@ func NearDuplicates(a *sparse.CSR, sig []uint32, threshold float64) [][]int {
 			union(x, y)
 		}
 	}
-	for band := range MinHashBands {
-		buckets := make(map[uint64][]int)
-		var order []uint64
-		for i := range m {
-			if norms[i] == 0 {
-				continue
-			}
-			key := bandKey(sig[i*MinHashes+band*MinHashRows : i*MinHashes+(band+1)*MinHashRows])
-			if _, ok := buckets[key]; !ok {
-				order = append(order, key)
-			}
-			buckets[key] = append(buckets[key], i)
+	// The rows of each band are sorted by their band key (stably, so a
+	// bucket lists its rows in increasing order) and the buckets are the
+	// runs of equal keys. Which pairs are tried depends only on the
+	// buckets, and the clusters are the components of the pairs that pass,
+	// so the order of the tries does not change the result.
+	live := make([]int32, 0, m) // the rows that can join a cluster
+	for i := range m {
+		if norms[i] != 0 {
+			live = append(live, int32(i))
 		}
-		for _, key := range order { // first-seen order: deterministic
-			rows := buckets[key]
-			for t := 1; t < len(rows); t++ {
-				try(rows[0], rows[t])
-				if t > 1 {
-					try(rows[t-1], rows[t])
+	}
+	var group [bandGroup]bandRows
+	for g := range group {
+		group[g] = newBandRows(len(live))
+	}
+	for b0 := 0; b0 < MinHashBands; b0 += bandGroup {
+		bandKeys(&group, sig, live, b0)
+		forBlocks(bandGroup, func(g int) { group[g].sort(live) })
+		for g := range group {
+			keys, rows := group[g].keys, group[g].rows
+			for s := 0; s < len(keys); {
+				e := s + 1
+				for e < len(keys) && keys[e] == keys[s] {
+					e++
 				}
+				for t := s + 1; t < e; t++ {
+					try(int(rows[s]), int(rows[t]))
+					if t > s+1 {
+						try(int(rows[t-1]), int(rows[t]))
+					}
+				}
+				s = e
 			}
 		}
 	}
-	groups := map[int][]int{}
+	// A cluster's root is its least row (union keeps the smaller root), so
+	// clusters come out in the order of their first rows.
+	size := make([]int32, m)
 	for i := range m {
-		r := find(i)
-		groups[r] = append(groups[r], i)
+		parent[i] = find(i)
+		size[parent[i]]++
 	}
 	var out [][]int
-	for i := range m {
-		if g := groups[i]; len(g) > 1 {
-			out = append(out, g)
+	at := make([]int32, m) // a root's cluster in out
+	for i, r := range parent {
+		if size[r] < 2 {
+			continue
 		}
+		if r == i {
+			at[r] = int32(len(out))
+			out = append(out, make([]int, 0, size[r]))
+		}
+		out[at[r]] = append(out[at[r]], i)
 	}
 	return out
 }
@@ -275,12 +295,83 @@ func rowDot(indptr, ind []int, data []float64, x, y int) float64 {
 	return s
 }
 
-func bandKey(vals []uint32) uint64 {
-	h := uint64(0x84222325cbf29ce4)
-	for _, v := range vals {
-		h = splitmix(h ^ uint64(v))
+// bandGroup is the number of bands whose keys are made in one pass over
+// the signatures: 4 bands of 4 values are 64 bytes, one cache line of a
+// signature.
+const bandGroup = 4
+
+// bandRows holds the rows of one band with their band keys, and the spare
+// arrays of the sort.
+type bandRows struct {
+	keys, spareKeys []uint64
+	rows, spareRows []int32
+}
+
+func newBandRows(n int) bandRows {
+	return bandRows{keys: make([]uint64, n), spareKeys: make([]uint64, n), rows: make([]int32, n), spareRows: make([]int32, n)}
+}
+
+// bandKeys writes the keys of bands b0 … b0+bandGroup−1 of the rows live
+// into group, rows split in fixed blocks over the cores.
+func bandKeys(group *[bandGroup]bandRows, sig []uint32, live []int32, b0 int) {
+	const block = 8192
+	forBlocks((len(live)+block-1)/block, func(b int) {
+		for t := b * block; t < min((b+1)*block, len(live)); t++ {
+			s := sig[int(live[t])*MinHashes+b0*MinHashRows:]
+			for g := range group {
+				group[g].keys[t] = bandKey(s[g*MinHashRows : (g+1)*MinHashRows])
+			}
+		}
+	})
+}
+
+// radixBits is the width of a digit of the band-key sort: 6 passes of 11
+// bits cover 64, and 2,048 counters stay in the first-level cache.
+const radixBits = 11
+
+// The sort's passes swap its arrays; their number must be even (this does
+// not compile otherwise).
+var _ = [1]struct{}{}[(64+radixBits-1)/radixBits%2]
+
+// sort sets b.rows to live and sorts the pairs (key, row) by key with a
+// least-significant-digit radix sort, which is stable: rows of equal key
+// stay in increasing order.
+func (b *bandRows) sort(live []int32) {
+	copy(b.rows, live)
+	keys, rows, spareKeys, spareRows := b.keys, b.rows, b.spareKeys, b.spareRows
+	var count [1 << radixBits]int
+	for shift := 0; shift < 64; shift += radixBits {
+		clear(count[:])
+		for _, k := range keys {
+			count[k>>shift&(1<<radixBits-1)]++
+		}
+		sum := 0
+		for d, c := range count {
+			count[d] = sum
+			sum += c
+		}
+		for i, k := range keys {
+			d := k >> shift & (1<<radixBits - 1)
+			spareKeys[count[d]] = k
+			spareRows[count[d]] = rows[i]
+			count[d]++
+		}
+		keys, spareKeys = spareKeys, keys
+		rows, spareRows = spareRows, rows
 	}
-	return h
+	// An even number of passes leaves the result in b.keys and b.rows.
+}
+
+// bandKey is a 64-bit hash of a band's MinHashRows values, taken two at a
+// time. Two bands that differ share a key with chance about 2⁻⁶⁴; if they
+// did, their rows would only become candidates, which the estimated
+// Jaccard and the cosine still have to confirm.
+func bandKey(vals []uint32) uint64 {
+	var _ = [1]struct{}{}[MinHashRows-4] // written for bands of 4 values
+	_ = vals[3]
+	lo := uint64(vals[0]) | uint64(vals[1])<<32
+	hi := uint64(vals[2]) | uint64(vals[3])<<32
+	return splitmix(splitmix(lo^0x84222325cbf29ce4) ^ hi)
 }
 
 // splitmix is the SplitMix64 finaliser (Steele, Lea and Flood, "Fast

@@ -3,6 +3,8 @@ package selection
 import (
 	"math"
 	"math/rand/v2"
+	"runtime"
+	"slices"
 	"testing"
 
 	"github.com/james-bowman/sparse"
@@ -137,6 +139,116 @@ func TestGreedyMaxCosine(t *testing.T) {
 		}
 		if c, i, j := MaxPairCosine(a, indices(cur.Rows)); c >= 0.9 {
 			t.Errorf("%s: picks %d and %d have cosine %.3f ≥ 0.9", m, i, j, c)
+		}
+	}
+}
+
+// nearDuplicatesByMaps is NearDuplicates with its buckets gathered in maps,
+// band after band in first-seen order: the plain reading of the bucketing
+// that the sorted version replaces. Common practice, no outside source: a
+// second, simpler implementation of the same definition.
+func nearDuplicatesByMaps(a *sparse.CSR, sig []uint32, threshold float64) [][]int {
+	m, _ := a.Dims()
+	norms := rowNorms(a)
+	parent := make([]int, m)
+	for i := range parent {
+		parent[i] = i
+	}
+	find := func(x int) int {
+		for parent[x] != x {
+			x = parent[x]
+		}
+		return x
+	}
+	raw := a.RawMatrix()
+	checked := map[[2]int]bool{}
+	try := func(x, y int) {
+		if checked[[2]int{x, y}] {
+			return
+		}
+		checked[[2]int{x, y}] = true
+		if EstimateJaccard(sig, x, y) >= minCandidateJaccard && rowDot(raw.Indptr, raw.Ind, raw.Data, x, y)/(norms[x]*norms[y]) >= threshold {
+			rx, ry := find(x), find(y)
+			parent[max(rx, ry)] = min(rx, ry)
+		}
+	}
+	for band := range MinHashBands {
+		buckets := map[uint64][]int{}
+		var order []uint64
+		for i := range m {
+			if norms[i] == 0 {
+				continue
+			}
+			key := bandKey(sig[i*MinHashes+band*MinHashRows : i*MinHashes+(band+1)*MinHashRows])
+			if _, ok := buckets[key]; !ok {
+				order = append(order, key)
+			}
+			buckets[key] = append(buckets[key], i)
+		}
+		for _, key := range order {
+			rows := buckets[key]
+			for t := 1; t < len(rows); t++ {
+				try(rows[0], rows[t])
+				if t > 1 {
+					try(rows[t-1], rows[t])
+				}
+			}
+		}
+	}
+	groups := map[int][]int{}
+	for i := range m {
+		groups[find(i)] = append(groups[find(i)], i)
+	}
+	var out [][]int
+	for i := range m {
+		if g := groups[i]; len(g) > 1 {
+			out = append(out, g)
+		}
+	}
+	return out
+}
+
+// The sorted buckets give the clusters the map-based ones give, on rows
+// whose band values come from a small alphabet (so that buckets are large
+// and hold unrelated rows), with rows of zero norm among them and rows
+// planted as noisy copies of others. Run on one core and on several, with
+// more rows than one block of the key pass.
+func TestNearDuplicatesMatchesMapBuckets(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 8))
+	const m, n = 20000, 40
+	rows := make([][]float64, m)
+	sig := make([]uint32, m*MinHashes)
+	for i := range rows {
+		rows[i] = make([]float64, n)
+		switch {
+		case i%11 == 5: // zero norm: never in a cluster
+		case i%7 == 3 && i > 100: // a noisy copy of an earlier row and its signature
+			src := rng.IntN(i)
+			copy(rows[i], rows[src])
+			rows[i][rng.IntN(n)] += rng.Float64()
+			copy(sig[i*MinHashes:(i+1)*MinHashes], sig[src*MinHashes:(src+1)*MinHashes])
+			sig[i*MinHashes+rng.IntN(MinHashes)] ^= 1
+			continue
+		default:
+			for k := 0; k < 6; k++ {
+				rows[i][rng.IntN(n)] = 1 + rng.Float64()
+			}
+		}
+		for k := range MinHashes {
+			sig[i*MinHashes+k] = uint32(rng.IntN(3)) // 81 values a band: large buckets
+		}
+	}
+	a := rowsCSR(rows)
+	want := nearDuplicatesByMaps(a, sig, 0.8)
+	if len(want) < 100 {
+		t.Fatalf("only %d clusters in the reference: the test data plants too few", len(want))
+	}
+	for _, procs := range []int{1, 4} {
+		prev := runtime.GOMAXPROCS(procs)
+		got := NearDuplicates(a, sig, 0.8)
+		runtime.GOMAXPROCS(prev)
+		if !slices.EqualFunc(got, want, slices.Equal[[]int]) {
+			t.Fatalf("GOMAXPROCS=%d: %d clusters, want %d (first %v, want %v)", procs, len(got), len(want), got[:min(3, len(got))], want[:min(3, len(want))])
 		}
 	}
 }
