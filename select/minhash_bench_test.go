@@ -25,6 +25,33 @@ func BenchmarkMinHash(b *testing.B) {
 	}
 }
 
+// BenchmarkSignDocument signs a document of 252 term hashes (250
+// shingles) the two ways: by building its shingles and then hashing them,
+// and by MinHashTerms, which hashes each shingle as it is formed. The
+// bytes are the 8-byte term hashes.
+func BenchmarkSignDocument(b *testing.B) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	terms := make([]uint64, 252)
+	for i := range terms {
+		terms[i] = rng.Uint64N(400) // a few repeats, as in a real text
+	}
+	dst := make([]uint32, MinHashes)
+	b.Run("shingles-then-minhash", func(b *testing.B) {
+		b.SetBytes(int64(8 * len(terms)))
+		b.ReportAllocs()
+		for b.Loop() {
+			MinHash(dst, Shingles(terms), 7)
+		}
+	})
+	b.Run("minhash-terms", func(b *testing.B) {
+		b.SetBytes(int64(8 * len(terms)))
+		b.ReportAllocs()
+		for b.Loop() {
+			MinHashTerms(dst, terms, 7)
+		}
+	})
+}
+
 // BenchmarkNearDuplicates runs the near-copy search over 200,000 rows of
 // 20 terms each with signatures of 300 random shingles, 1% of the rows
 // planted as copies of others (so a few buckets hold pairs): the

@@ -77,19 +77,40 @@ func MinHash(dst []uint32, items []uint64, seed uint64) {
 		}
 		return
 	}
-	const empty = uint64(1) << 32 // above every 32-bit value
-	var bins [MinHashes]uint64
-	for k := range bins {
-		bins[k] = empty
-	}
+	var bins minBins
+	bins.reset()
 	for _, it := range items {
-		h := splitmix(it ^ seed)
-		k := h >> (64 - minHashBinBits)
-		bins[k] = min(bins[k], h&0xffffffff)
+		bins.add(it, seed)
 	}
-	for k, v := range bins {
-		if v == empty {
-			v = densify(&bins, k, seed)
+	bins.write(dst, seed)
+}
+
+// minBins are the places of a signature while it is made: each holds the
+// least 32-bit value that fell into it, or minEmpty.
+type minBins [MinHashes]uint64
+
+// minEmpty marks a place no item fell into; it is above every 32-bit value.
+const minEmpty = uint64(1) << 32
+
+func (b *minBins) reset() {
+	for k := range b {
+		b[k] = minEmpty
+	}
+}
+
+// add hashes one item into its place.
+func (b *minBins) add(it, seed uint64) {
+	h := splitmix(it ^ seed)
+	k := h >> (64 - minHashBinBits)
+	b[k] = min(b[k], h&0xffffffff)
+}
+
+// write fills the empty places (at least one item was added) and writes
+// the signature into dst.
+func (b *minBins) write(dst []uint32, seed uint64) {
+	for k, v := range b {
+		if v == minEmpty {
+			v = densify(b, k, seed)
 		}
 		dst[k] = uint32(v)
 	}
@@ -103,16 +124,15 @@ const minHashBinBits = 7
 // the seed). At least one place is non-empty, so the sequence ends; after
 // 4096 attempts (a chance of (127/128)^4096 < 2e-14 with one non-empty
 // place) the places after k are scanned in turn, which ends too.
-func densify(bins *[MinHashes]uint64, k int, seed uint64) uint64 {
-	const empty = uint64(1) << 32
+func densify(bins *minBins, k int, seed uint64) uint64 {
 	for t := uint64(1); t <= 4096; t++ {
 		j := splitmix(seed^0x2545f4914f6cdd1d^uint64(k)<<16^t) >> (64 - minHashBinBits)
-		if v := bins[j]; v != empty {
+		if v := bins[j]; v != minEmpty {
 			return v
 		}
 	}
 	for d := 1; ; d++ {
-		if v := bins[(k+d)%MinHashes]; v != empty {
+		if v := bins[(k+d)%MinHashes]; v != minEmpty {
 			return v
 		}
 	}

@@ -13,13 +13,39 @@ func Shingles(terms []uint64) []uint64 {
 	}
 	out := make([]uint64, 0, len(terms)-ShingleLength+1)
 	for i := 0; i+ShingleLength <= len(terms); i++ {
-		h := uint64(ShingleLength)
-		for _, t := range terms[i : i+ShingleLength] {
-			h = h*0x100000001b3 ^ t
-		}
-		out = append(out, h)
+		out = append(out, shingle(terms[i:i+ShingleLength]))
 	}
 	return out
+}
+
+// shingle is the hash of one run of ShingleLength terms.
+func shingle(run []uint64) uint64 {
+	_ = run[ShingleLength-1]
+	h := uint64(ShingleLength)
+	for _, t := range run[:ShingleLength] {
+		h = h*0x100000001b3 ^ t
+	}
+	return h
+}
+
+// MinHashTerms writes into dst the signature that [MinHash] makes of
+// Shingles(terms), without building the shingles: it is what a worker
+// calls for every document, and the shingles would be a slice as long as
+// the document each time.
+func MinHashTerms(dst []uint32, terms []uint64, seed uint64) {
+	if len(terms) < ShingleLength {
+		MinHash(dst, terms, seed)
+		return
+	}
+	if len(dst) != MinHashes {
+		panic("selection: MinHashTerms needs a signature of MinHashes values")
+	}
+	var bins minBins
+	bins.reset()
+	for i := 0; i+ShingleLength <= len(terms); i++ {
+		bins.add(shingle(terms[i:i+ShingleLength]), seed)
+	}
+	bins.write(dst, seed)
 }
 
 // TermHash is the 64-bit FNV-1a hash of a term: a hash that depends only

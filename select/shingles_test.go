@@ -1,6 +1,7 @@
 package selection
 
 import (
+	"math/rand/v2"
 	"slices"
 	"testing"
 )
@@ -27,5 +28,29 @@ func TestTermHashAndShingles(t *testing.T) {
 	}
 	if short := Shingles([]uint64{5, 6}); !slices.Equal(short, []uint64{5, 6}) {
 		t.Errorf("Shingles of 2 terms = %v, want the terms", short)
+	}
+}
+
+// MinHashTerms must give exactly the signature MinHash gives of the
+// shingles, for texts shorter than a shingle, of one shingle and long
+// ones, with repeated terms: signatures are kept in indexes and compared
+// with signatures made the other way.
+func TestMinHashTermsMatchesShingles(t *testing.T) {
+	rng := rand.New(rand.NewPCG(11, 12))
+	want := make([]uint32, MinHashes)
+	got := make([]uint32, MinHashes)
+	for _, n := range []int{0, 1, 2, 3, 4, 5, 17, 128, 300, 5000} {
+		for trial := range 20 {
+			terms := make([]uint64, n)
+			for i := range terms {
+				terms[i] = rng.Uint64N(uint64(1 + trial*n)) // few distinct terms in the early trials
+			}
+			seed := rng.Uint64()
+			MinHash(want, Shingles(terms), seed)
+			MinHashTerms(got, terms, seed)
+			if !slices.Equal(got, want) {
+				t.Fatalf("%d terms, trial %d: MinHashTerms differs from MinHash of the shingles", n, trial)
+			}
+		}
 	}
 }

@@ -168,7 +168,7 @@ func ingestMaps(fsys fs.FS, opts textproc.Options, jobs int, minhash bool) (*res
 			})
 			if minhash {
 				r.sig = make([]uint32, selection.MinHashes)
-				selection.MinHash(r.sig, selection.Shingles(seq), ingestMinHashSeed)
+				selection.MinHashTerms(r.sig, seq, ingestMinHashSeed)
 			}
 			return r
 		}
@@ -226,7 +226,7 @@ func ingestIDs(fsys fs.FS, opts textproc.Options, jobs int, minhash bool) (*resu
 					seq = append(seq, termHash[id])
 				}
 				r.sig = make([]uint32, selection.MinHashes)
-				selection.MinHash(r.sig, selection.Shingles(seq), ingestMinHashSeed)
+				selection.MinHashTerms(r.sig, seq, ingestMinHashSeed)
 			}
 			return r
 		}

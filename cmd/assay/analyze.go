@@ -107,7 +107,7 @@ func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, erro
 					seq = append(seq, termHash[id])
 				}
 				r.sig = make([]uint32, selection.MinHashes)
-				selection.MinHash(r.sig, selection.Shingles(seq), minHashSeed)
+				selection.MinHashTerms(r.sig, seq, minHashSeed)
 			}
 			return r
 		}
@@ -213,7 +213,7 @@ func docWorker(opts pickOptions) func() func(corpus.Document) analysed {
 				seq = append(seq, selection.TermHash(term))
 			})
 			r.sig = make([]uint32, selection.MinHashes)
-			selection.MinHash(r.sig, selection.Shingles(seq), minHashSeed)
+			selection.MinHashTerms(r.sig, seq, minHashSeed)
 			return r
 		}
 	}
