@@ -7,6 +7,7 @@ import (
 	"strings"
 	"unicode"
 	"unicode/utf8"
+	"unsafe"
 
 	"golang.org/x/text/cases"
 	"golang.org/x/text/transform"
@@ -515,9 +516,11 @@ func (a *Analyzer) lookUp(text string) int {
 // entry of each bigram, and the slot of each word token that is in the
 // table at the slot its hash points to; -1 for every other word token
 // (longer than wKey, elsewhere in the table, or new), which lookUp then
-// finds with wordSlot. The loop does little besides loading the slots, so
-// that the processor can wait for several of them at once: with a large
-// vocabulary most of the time of a look-up is the wait for its slot.
+// finds with wordSlot. With a large vocabulary most of the time of a
+// look-up is the wait for its slot, so the work is split in two passes: the
+// first hashes every word token and only prefetches its slot, which lets
+// the processor fetch many slots at once; the second compares each slot's
+// head with its token, by when most of the slots are in the cache.
 func (a *Analyzer) probe() {
 	refs := a.tok.refs
 	a.at = slices.Grow(a.at[:0], len(refs))[:len(refs)]
@@ -536,11 +539,21 @@ func (a *Analyzer) probe() {
 		if n <= wKey {
 			x, y := paddedWords(arena[ref.start:ref.start+headBytes], n)
 			i := hashHead(x, y, n) & mask
-			if sx, sy := slots[i].head(); sx == x && sy == y|uint64(n)<<56 {
-				si = int32(i)
-			}
+			prefetch(unsafe.Pointer(&slots[i]))
+			si = int32(i)
 		}
 		a.at[k] = si
+	}
+	for k, ref := range refs {
+		si := a.at[k]
+		if si < 0 || ref.kind == tokGram {
+			continue
+		}
+		n := ref.end - ref.start
+		x, y := paddedWords(arena[ref.start:ref.start+headBytes], n)
+		if sx, sy := slots[si].head(); sx != x || sy != y|uint64(n)<<56 {
+			a.at[k] = -1
+		}
 	}
 }
 
