@@ -83,7 +83,7 @@ if [ ! -d "$DEST/spamassassin-eml" ] || [ ! -d "$DEST/spamassassin" ]; then
 fi
 corpora+=("spamassassin-eml $DEST/spamassassin-eml -" "spamassassin $DEST/spamassassin .txt")
 
-bytes_of() { find "$1" -type f ! -name '.*' -printf '%s\n' | awk '{s += $1} END {print s}'; }
+bytes_of() { find "$1" -type f ! -name '.*' -printf '%s\n' | awk '{s += $1} END {printf "%.0f\n", s}'; }
 
 TSV=$OUT/runs.tsv
 printf 'corpus\ttool\tmode\trun\tseconds\twall\trss_kib\tbytes\tdocs\textra\n' >"$TSV"

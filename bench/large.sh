@@ -74,7 +74,8 @@ warm() {
 pgpgin() { awk '/^pgpgin/ {print $2}' /proc/vmstat; }
 
 # MB/s is of the raw input, the sum of the file sizes (as in ingest.sh).
-bytes=$(find "$CORPUS" -type f ! -name '.*' -printf '%s\n' | awk '{s += $1} END {print s}')
+# (printf: awk's print writes a sum past 2^31 as 2.59763e+09, which bc refuses.)
+bytes=$(find "$CORPUS" -type f ! -name '.*' -printf '%s\n' | awk '{s += $1} END {printf "%.0f\n", s}')
 TSV=$OUT/runs.tsv
 printf 'run\ttool\tseconds\tmb_per_s\tpeak_kib\tdisk_mb\n' >"$TSV"
 for r in $(seq "$RUNS"); do
