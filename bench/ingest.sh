@@ -39,6 +39,7 @@
 # printed).
 set -euo pipefail
 cd "$(dirname "$0")/.."
+. bench/lib.sh
 DEST=${1:-${ASSAY_CORPORA:-$HOME/.cache/assay-corpora}}
 RUNS=${RUNS:-3}
 SIZES=${SIZES:-"10000 100000"}
@@ -67,23 +68,15 @@ fi
 
 # The corpora: name, folder, extension of the files scikit-learn reads ("" = skip it).
 corpora=()
-gen_key=$(sha1sum bench/gen/main.go | cut -c1-12)
 for n in $SIZES; do
 	name=gen-$((n / 1000))k
-	dir=$DEST/gen/$name
-	if [ "$(cat "$dir.stamp" 2>/dev/null)" != "$n 1 $gen_key" ]; then
-		rm -rf "$dir"
-		go run ./bench/gen -n "$n" -seed 1 -out "$dir" >&2
-		echo "$n 1 $gen_key" >"$dir.stamp"
-	fi
-	corpora+=("$name $dir .txt")
+	gen_corpus "$name" "$n"
+	corpora+=("$name $DEST/gen/$name .txt")
 done
 if [ ! -d "$DEST/spamassassin-eml" ] || [ ! -d "$DEST/spamassassin" ]; then
 	bench/fetch-corpora.sh "$DEST" >&2
 fi
 corpora+=("spamassassin-eml $DEST/spamassassin-eml -" "spamassassin $DEST/spamassassin .txt")
-
-bytes_of() { find "$1" -type f ! -name '.*' -printf '%s\n' | awk '{s += $1} END {printf "%.0f\n", s}'; }
 
 TSV=$OUT/runs.tsv
 printf 'corpus\ttool\tmode\trun\tseconds\twall\trss_kib\tbytes\tdocs\textra\n' >"$TSV"

@@ -27,6 +27,7 @@
 # run, runs.tsv) and medians are printed at the end.
 set -euo pipefail
 cd "$(dirname "$0")/.."
+. bench/lib.sh
 DEST=${1:-${ASSAY_CORPORA:-$HOME/.cache/assay-corpora}}
 N=${N:-1000000}
 RUNS=${RUNS:-3}
@@ -49,13 +50,7 @@ if [ "$SKLEARN" = 1 ] && ! $PY -c 'import sklearn, snowballstemmer' 2>/dev/null;
 	echo "large.sh: installing python3-sklearn and python3-snowballstemmer" >&2
 	apt-get install -y -qq python3-sklearn python3-snowballstemmer >/dev/null
 fi
-# Made again when bench/gen changes, with the stamp ingest.sh uses.
-gen_key=$(sha1sum bench/gen/main.go | cut -c1-12)
-if [ "$(cat "$CORPUS.stamp" 2>/dev/null)" != "$N 1 $gen_key" ]; then
-	rm -rf "$CORPUS"
-	go run ./bench/gen -n "$N" -seed 1 -out "$CORPUS" >&2
-	echo "$N 1 $gen_key" >"$CORPUS.stamp"
-fi
+gen_corpus "gen-$((N / 1000))k" "$N"
 
 if [ "$STEM" = 1 ]; then
 	lang=(--lang english)
@@ -73,9 +68,7 @@ warm() {
 }
 pgpgin() { awk '/^pgpgin/ {print $2}' /proc/vmstat; }
 
-# MB/s is of the raw input, the sum of the file sizes (as in ingest.sh).
-# (printf: awk's print writes a sum past 2^31 as 2.59763e+09, which bc refuses.)
-bytes=$(find "$CORPUS" -type f ! -name '.*' -printf '%s\n' | awk '{s += $1} END {printf "%.0f\n", s}')
+bytes=$(bytes_of "$CORPUS")
 TSV=$OUT/runs.tsv
 printf 'run\ttool\tseconds\tmb_per_s\tpeak_kib\tdisk_mb\n' >"$TSV"
 for r in $(seq "$RUNS"); do

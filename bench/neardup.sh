@@ -22,23 +22,12 @@
 # messages (bench/fetch-corpora.sh).
 set -euo pipefail
 cd "$(dirname "$0")/.."
+. bench/lib.sh
 DEST=${ASSAY_CORPORA:-$HOME/.cache/assay-corpora}
 RUNS=${RUNS:-3}
-# gen NAME N [NEAR]: makes DEST/gen/NAME with bench/gen (seed 1) unless the
-# stamp says it is there for this version of bench/gen (the stamp of
-# bench/ingest.sh, so the two share the plain corpora).
-gen() {
-	local name=$1 n=$2 near=${3:-} key
-	key="$n 1 $(sha1sum bench/gen/main.go | cut -c1-12)${near:+ near $near}"
-	if [ "$(cat "$DEST/gen/$name.stamp" 2>/dev/null)" != "$key" ]; then
-		rm -rf "$DEST/gen/$name"
-		go run ./bench/gen -n "$n" -seed 1 ${near:+-near "$near"} -out "$DEST/gen/$name" >&2
-		echo "$key" >"$DEST/gen/$name.stamp"
-	fi
-}
 if [ $# -eq 0 ]; then
-	gen gen-100k 100000
-	gen gen-100k-near 100000 0.05
+	gen_corpus gen-100k 100000
+	gen_corpus gen-100k-near 100000 0.05
 	[ -d "$DEST/spamassassin-eml" ] || bench/fetch-corpora.sh "$DEST" >&2
 	set -- "$DEST/gen/gen-100k" "$DEST/gen/gen-100k-near" "$DEST/spamassassin-eml"
 fi
