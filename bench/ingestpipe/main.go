@@ -65,7 +65,7 @@ type result struct {
 	display *textproc.DisplayForms
 	docs    int
 	bytes   int64
-	sigs    []uint32
+	sigs    selection.Signatures
 	fp      string
 }
 
@@ -210,6 +210,7 @@ func ingestIDs(fsys fs.FS, opts textproc.Options, jobs int, minhash bool) (*resu
 		rc := b.NewRowCounter()
 		var termHash []uint64 // by term ID, for -minhash
 		var seq []uint64
+		var sigs []uint32 // a slab of signatures, as in analyze.go
 		return func(d corpus.Document) analysed {
 			ids, _ = az.AnalyzeIDs(d.Text, ids[:0])
 			rc.AddAll(ids)
@@ -225,7 +226,10 @@ func ingestIDs(fsys fs.FS, opts textproc.Options, jobs int, minhash bool) (*resu
 					}
 					seq = append(seq, termHash[id])
 				}
-				r.sig = make([]uint32, selection.MinHashes)
+				if len(sigs) == 0 {
+					sigs = make([]uint32, 256*selection.MinHashes)
+				}
+				r.sig, sigs = sigs[:selection.MinHashes:selection.MinHashes], sigs[selection.MinHashes:]
 				selection.MinHashTerms(r.sig, seq, ingestMinHashSeed)
 			}
 			return r
@@ -267,7 +271,9 @@ func (r *result) tally(fp *corpus.Fingerprint, d *corpus.Document, sig []uint32)
 	fp.Add(d)
 	r.docs++
 	r.bytes += d.Size
-	r.sigs = append(r.sigs, sig...)
+	if sig != nil {
+		r.sigs.Add(sig)
+	}
 }
 
 // phaseStart and phaseCPU are when the current run began and the CPU
@@ -315,8 +321,10 @@ func checksum(r *result) string {
 			w(f.Count)
 		}
 	}
-	for _, s := range r.sigs {
-		w(int(s))
+	for i := range r.sigs.Len() {
+		for _, s := range r.sigs.At(i) {
+			w(int(s))
+		}
 	}
 	h.Write([]byte(r.fp))
 	return fmt.Sprintf("%x", h.Sum(nil)[:12])

@@ -36,40 +36,8 @@ type analysis struct {
 	minDF       int // the min-df used (derived when not given)
 	// sigs holds the MinHash signature of every document read, in order,
 	// when near-copies are looked for.
-	sigs signatures
+	sigs selection.Signatures
 }
-
-// signatures holds MinHash signatures (selection.MinHashes values each) in
-// chunks of sigChunk, so that adding one never moves those before it. One
-// slice grown by append would copy them all again at each growth: for the
-// 51 MB of 100,000 signatures, 300 MB allocated and moved by the
-// collector, which is one goroutine beside the workers.
-type signatures struct {
-	chunks [][]uint32
-	n      int
-}
-
-// sigChunk is the number of signatures in a chunk of signatures: 2 MiB.
-const sigChunk = 4096
-
-// add appends a copy of sig, which has selection.MinHashes values.
-func (s *signatures) add(sig []uint32) {
-	k := s.n % sigChunk
-	if k == 0 {
-		s.chunks = append(s.chunks, make([]uint32, sigChunk*selection.MinHashes))
-	}
-	copy(s.chunks[len(s.chunks)-1][k*selection.MinHashes:(k+1)*selection.MinHashes], sig)
-	s.n++
-}
-
-// at returns signature i (not a copy).
-func (s *signatures) at(i int) []uint32 {
-	k := i % sigChunk * selection.MinHashes
-	return s.chunks[i/sigChunk][k : k+selection.MinHashes : k+selection.MinHashes]
-}
-
-// len returns the number of signatures.
-func (s *signatures) len() int { return s.n }
 
 // analysed is what a worker found in one document.
 type analysed struct {
@@ -283,7 +251,7 @@ func (c *collector) record(d corpus.Document, lang textproc.Language, sig []uint
 	}
 	c.an.docs = append(c.an.docs, docInfo{ID: d.ID, Title: d.Title, Size: d.Size, Repaired: d.Repaired, Format: d.Format, Meta: d.Meta, Lang: lang})
 	if sig != nil {
-		c.an.sigs.add(sig)
+		c.an.sigs.Add(sig)
 	}
 }
 

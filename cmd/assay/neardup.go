@@ -23,13 +23,13 @@ type nearDups struct {
 func nearDupsOf(a *sparse.CSR, an *analysis, docOf func(row int) int, opts pickOptions) nearDups {
 	nd := nearDups{sel: a, clusterOf: map[int][]int{}}
 	m, _ := a.Dims()
-	if opts.NearDup <= 0 || m < 2 || an.sigs.len() != len(an.docs) {
+	if opts.NearDup <= 0 || m < 2 || an.sigs.Len() != len(an.docs) {
 		return nd
 	}
 	// The signature of each row of a: that of the document it stands for.
 	sig := make([]uint32, m*selection.MinHashes)
 	for i := range m {
-		copy(sig[i*selection.MinHashes:], an.sigs.at(docOf(i)))
+		copy(sig[i*selection.MinHashes:], an.sigs.At(docOf(i)))
 	}
 	nd.clusters = selection.NearDuplicates(a, sig, opts.NearDup)
 	if len(nd.clusters) == 0 {

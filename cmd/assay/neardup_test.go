@@ -143,33 +143,3 @@ func TestSpamAssassinNoNearCopies(t *testing.T) {
 	}
 	t.Logf("largest cosine between two of 30 exemplars: %.3f; near-copies listed under them: %d", worst, merged)
 }
-
-// TestSignaturesAcrossChunks checks that the chunked store gives back
-// every signature as it was added, on both sides of a chunk boundary, and
-// that a later add does not disturb an earlier one (common practice for a
-// container, no outside source).
-func TestSignaturesAcrossChunks(t *testing.T) {
-	var s signatures
-	n := 2*sigChunk + 3
-	sig := make([]uint32, selection.MinHashes)
-	for i := range n {
-		for j := range sig {
-			sig[j] = uint32(i*selection.MinHashes + j)
-		}
-		s.add(sig)
-	}
-	if s.len() != n {
-		t.Fatalf("len = %d, want %d", s.len(), n)
-	}
-	for _, i := range []int{0, 1, sigChunk - 1, sigChunk, sigChunk + 1, 2 * sigChunk, n - 1} {
-		got := s.at(i)
-		if len(got) != selection.MinHashes || cap(got) != selection.MinHashes {
-			t.Fatalf("at(%d): len %d cap %d, want %d", i, len(got), cap(got), selection.MinHashes)
-		}
-		for j, v := range got {
-			if want := uint32(i*selection.MinHashes + j); v != want {
-				t.Fatalf("at(%d)[%d] = %d, want %d", i, j, v, want)
-			}
-		}
-	}
-}
