@@ -381,7 +381,8 @@ func (b *Builder) dfFromCounters(size int) []int32 {
 	}
 	df := make([]int32, size)
 	for _, c := range counters {
-		for id, d := range c.df {
+		for id, cell := range c.cells {
+			d := cell.df
 			if d == 0 {
 				continue
 			}
@@ -772,28 +773,37 @@ func (r Row) Len() int { return int(r.n) }
 // not the builder's). Its zero value is ready; it is not safe for
 // concurrent use (give each goroutine its own).
 type RowCounter struct {
-	count []int32  // by term ID; zero outside the current row
-	ids   []int32  // the row's distinct IDs
-	buf   []byte   // the rows encoded so far in slab.whole
-	slab  *rowSlab // where Row writes
+	cells []rowCell // by term ID
+	ids   []int32   // the row's distinct IDs
+	buf   []byte    // the rows encoded so far in slab.whole
+	slab  *rowSlab  // where Row writes
 	// Of a counter made by Builder.NewRowCounter: the builder, the
-	// counter's index in it, the rows made and, by term ID, how many of
-	// them hold the term.
+	// counter's index in it and the rows made.
 	b    *Builder
 	part int
 	made int32
-	df   []int32
+}
+
+// rowCell is what a RowCounter keeps of a term ID: its count in the
+// current row (zero outside it) and, for a counter made by
+// Builder.NewRowCounter, the number of rows made that hold it. The two
+// are side by side because Row reads and writes both for every ID that
+// AddAll has just counted: in one array, the second look-up finds the
+// cache line the first brought in, where a second array of frequencies
+// cost a cache miss for each term outside the cache.
+type rowCell struct {
+	count, df int32
 }
 
 // Add counts one occurrence of the term with ID id (at least 0).
 func (c *RowCounter) Add(id int32) {
-	if int(id) >= len(c.count) {
+	if int(id) >= len(c.cells) {
 		c.grow(id)
 	}
-	if c.count[id] == 0 {
+	if c.cells[id].count == 0 {
 		c.ids = append(c.ids, id)
 	}
-	c.count[id]++
+	c.cells[id].count++
 }
 
 // AddAll counts every ID of ids.
@@ -805,23 +815,23 @@ func (c *RowCounter) Add(id int32) {
 func (c *RowCounter) AddAll(ids []int32) {
 	n := len(c.ids)
 	out := slices.Grow(c.ids, len(ids))[:n+len(ids)]
-	count := c.count
+	cells := c.cells
 	for _, id := range ids {
-		if int(id) >= len(count) {
+		if int(id) >= len(cells) {
 			c.grow(id)
-			count = c.count
+			cells = c.cells
 		}
-		k := count[id]
+		k := cells[id].count
 		out[n] = id
 		n += int(uint32(k-1) >> 31) // 1 when the row did not have id yet (k = 0)
-		count[id] = k + 1
+		cells[id].count = k + 1
 	}
 	c.ids = out[:n]
 }
 
-// grow makes room in c.count for the ID id.
+// grow makes room in c.cells for the ID id.
 func (c *RowCounter) grow(id int32) {
-	c.count = append(c.count, make([]int32, max(int(id)+1-len(c.count), len(c.count)/2, 1024))...)
+	c.cells = append(c.cells, make([]rowCell, max(int(id)+1-len(c.cells), len(c.cells)/2, 1024))...)
 }
 
 // Row returns the counted row and starts a new one. The row's bytes are
@@ -841,20 +851,21 @@ func (c *RowCounter) Row() Row {
 	start := len(c.buf)
 	enc := c.buf
 	maxID := int32(-1)
+	df := int32(0)
+	if c.b != nil {
+		df = 1 // only the builder's counters count the frequencies
+	}
+	cells := c.cells
 	for _, id := range c.ids {
-		enc = appendEntry(enc, id, c.count[id])
-		c.count[id] = 0
+		cell := &cells[id]
+		enc = appendEntry(enc, id, cell.count)
+		cell.count = 0
+		cell.df += df
 		maxID = max(maxID, id)
 	}
 	c.buf = enc
 	r := Row{enc: enc[start:len(enc):len(enc)], n: int32(len(c.ids)), maxID: maxID, slab: c.slab, off: int32(start)}
 	if c.b != nil {
-		if len(c.df) < len(c.count) {
-			c.df = append(c.df, make([]int32, len(c.count)-len(c.df))...)
-		}
-		for _, id := range c.ids {
-			c.df[id]++
-		}
 		if c.made == 1<<31-1 {
 			panic("sparsemat: more than 2³¹−1 rows from one RowCounter")
 		}
