@@ -7,6 +7,7 @@ import (
 	"io/fs"
 	"runtime/debug"
 	"runtime/metrics"
+	"slices"
 	"sync"
 
 	"assay/corpus"
@@ -240,7 +241,15 @@ type collector struct {
 	// forms are the surface forms by vocabulary ID; finish hands those of
 	// the kept terms to an.display.
 	forms textproc.FormsByID
+	// docs are the documents recorded, in chunks of docChunk that finish
+	// joins into an.docs with one allocation of the exact size; one slice
+	// grown by append allocated 87 MB on the way to the 16 MB of 100,000
+	// documents, on this one goroutine.
+	docs [][]docInfo
 }
+
+// docChunk is the number of documents in a chunk of collector.docs.
+const docChunk = 4096
 
 // record notes what the report needs of document d, whose terms are in
 // the builder already.
@@ -249,7 +258,11 @@ func (c *collector) record(d corpus.Document, lang textproc.Language, sig []uint
 	if c.opts.progress != nil {
 		c.opts.progress()
 	}
-	c.an.docs = append(c.an.docs, docInfo{ID: d.ID, Title: d.Title, Size: d.Size, Repaired: d.Repaired, Format: d.Format, Meta: d.Meta, Lang: lang})
+	if len(c.docs) == 0 || len(c.docs[len(c.docs)-1]) == docChunk {
+		c.docs = append(c.docs, make([]docInfo, 0, docChunk))
+	}
+	last := &c.docs[len(c.docs)-1]
+	*last = append(*last, docInfo{ID: d.ID, Title: d.Title, Size: d.Size, Repaired: d.Repaired, Format: d.Format, Meta: d.Meta, Lang: lang})
 	if sig != nil {
 		c.an.sigs.Add(sig)
 	}
@@ -260,6 +273,8 @@ func (c *collector) finish(skips []corpus.Skip, fingerprint string) (*analysis, 
 	an, opts := c.an, c.opts
 	an.skips = skips
 	an.fingerprint = fingerprint
+	an.docs = slices.Concat(c.docs...)
+	c.docs = nil
 	if len(an.docs) == 0 {
 		return nil, fmt.Errorf("%s: %w (%d files skipped)", opts.Source, errNoDocuments, len(skips))
 	}
