@@ -36,3 +36,28 @@ func (s *Signatures) At(i int) []uint32 {
 
 // Len returns the number of signatures.
 func (s *Signatures) Len() int { return s.n }
+
+// SignatureSlab hands out room for one signature at a time, cut from
+// slabs of [SignatureSlabSize] signatures: one allocation a slab rather
+// than one a document, for a goroutine that signs documents whose
+// signatures are copied elsewhere (into [Signatures]) once made. A slab
+// stays alive while any signature cut from it does. The zero value is
+// ready to use; it is not safe for concurrent use.
+type SignatureSlab struct {
+	free []uint32
+}
+
+// SignatureSlabSize is the number of signatures in a slab of
+// [SignatureSlab].
+const SignatureSlabSize = 256
+
+// Next returns room for a signature: [MinHashes] values, with no room
+// beyond them.
+func (s *SignatureSlab) Next() []uint32 {
+	if len(s.free) == 0 {
+		s.free = make([]uint32, SignatureSlabSize*MinHashes)
+	}
+	sig := s.free[:MinHashes:MinHashes]
+	s.free = s.free[MinHashes:]
+	return sig
+}

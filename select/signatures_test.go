@@ -31,3 +31,29 @@ func TestSignaturesAcrossChunks(t *testing.T) {
 		}
 	}
 }
+
+// TestSignatureSlabCutsApart checks that the room Next hands out is
+// MinHashes long with no capacity beyond, and that no two pieces overlap,
+// within a slab and across slabs (common practice for an allocator, no
+// outside source).
+func TestSignatureSlabCutsApart(t *testing.T) {
+	var s SignatureSlab
+	var pieces [][]uint32
+	for i := range SignatureSlabSize + 2 {
+		p := s.Next()
+		if len(p) != MinHashes || cap(p) != MinHashes {
+			t.Fatalf("piece %d: len %d cap %d, want %d", i, len(p), cap(p), MinHashes)
+		}
+		for j := range p {
+			p[j] = uint32(i)
+		}
+		pieces = append(pieces, p)
+	}
+	for i, p := range pieces {
+		for j, v := range p {
+			if v != uint32(i) {
+				t.Fatalf("piece %d[%d] = %d: overwritten by piece %d", i, j, v, v)
+			}
+		}
+	}
+}

@@ -210,7 +210,7 @@ func ingestIDs(fsys fs.FS, opts textproc.Options, jobs int, minhash bool) (*resu
 		rc := b.NewRowCounter()
 		var termHash []uint64 // by term ID, for -minhash
 		var seq []uint64
-		var sigs []uint32 // a slab of signatures, as in analyze.go
+		var sigs selection.SignatureSlab // as in analyze.go
 		return func(d corpus.Document) analysed {
 			ids, _ = az.AnalyzeIDs(d.Text, ids[:0])
 			rc.AddAll(ids)
@@ -226,10 +226,7 @@ func ingestIDs(fsys fs.FS, opts textproc.Options, jobs int, minhash bool) (*resu
 					}
 					seq = append(seq, termHash[id])
 				}
-				if len(sigs) == 0 {
-					sigs = make([]uint32, 256*selection.MinHashes)
-				}
-				r.sig, sigs = sigs[:selection.MinHashes:selection.MinHashes], sigs[selection.MinHashes:]
+				r.sig = sigs.Next()
 				selection.MinHashTerms(r.sig, seq, ingestMinHashSeed)
 			}
 			return r

@@ -48,10 +48,6 @@ type analysed struct {
 	sig    []uint32 // MinHash signature of the word shingles (nil when near-copies are not looked for)
 }
 
-// sigSlab is the number of signatures a worker of analyze allocates at a
-// time.
-const sigSlab = 256
-
 // minHashSeed seeds the MinHash functions of the near-copy search. It is a
 // constant, not --seed: a signature belongs to the document, like its term
 // counts, so it can be kept in an index and reused by picks with any seed.
@@ -94,7 +90,7 @@ func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, erro
 			ids      []int32
 			termHash []uint64 // fnv64 of each term, by provisional ID
 			seq      []uint64
-			sigs     []uint32 // room for the signatures of the next documents
+			sigs     selection.SignatureSlab
 		)
 		return func(d corpus.Document) rowResult {
 			var r rowResult
@@ -112,13 +108,7 @@ func analyze(ctx context.Context, fsys fs.FS, opts pickOptions) (*analysis, erro
 					}
 					seq = append(seq, termHash[id])
 				}
-				// Signatures are cut from a slab of sigSlab (the
-				// collector copies them): one allocation a slab, not
-				// one a document.
-				if len(sigs) == 0 {
-					sigs = make([]uint32, sigSlab*selection.MinHashes)
-				}
-				r.sig, sigs = sigs[:selection.MinHashes:selection.MinHashes], sigs[selection.MinHashes:]
+				r.sig = sigs.Next() // the collector copies it
 				selection.MinHashTerms(r.sig, seq, minHashSeed)
 			}
 			return r
