@@ -93,12 +93,30 @@ func IDFValues(c *Counts, w IDF) []float64 {
 // [Weighting.Validate] first. Rows whose weights are all zero stay zero
 // under any normalisation.
 func Weight(c *Counts, w Weighting) *sparse.CSR {
+	return weightInto(c, w, make([]float64, c.Matrix.NNZ()))
+}
+
+// WeightInPlace is [Weight] for a caller that needs the counts no more: it
+// writes the weights over the counts' own values and returns c.Matrix so
+// weighted, and sets c.Matrix to nil. The result is the same, bit for bit,
+// without a second array of values (1.2 GB at a million documents, each
+// page of it new memory for the kernel to zero). c's other fields stay.
+func WeightInPlace(c *Counts, w Weighting) *sparse.CSR {
+	a := weightInto(c, w, c.Matrix.RawMatrix().Data)
+	c.Matrix = nil
+	return a
+}
+
+// weightInto writes the weights of c under w into data, which is either a
+// new array as long as c's values or those values themselves: each value
+// is read before its weight is written, and a row's norm is taken from
+// the weights.
+func weightInto(c *Counts, w Weighting, data []float64) *sparse.CSR {
 	if err := w.Validate(); err != nil {
 		panic("sparsemat: " + err.Error())
 	}
 	raw := c.Matrix.RawMatrix()
 	idf := IDFValues(c, w.IDF)
-	data := make([]float64, len(raw.Data))
 	// Each row is weighted on its own, so the rows are shared out in
 	// blocks over the cores; the bits do not depend on the split.
 	const blockRows = 4096

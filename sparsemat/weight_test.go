@@ -10,6 +10,8 @@ import (
 	"slices"
 	"strings"
 	"testing"
+
+	"github.com/james-bowman/sparse"
 )
 
 // tolSklearn: scikit-learn and this package evaluate the same closed-form
@@ -77,12 +79,17 @@ func TestWeightMatchesScikitLearn(t *testing.T) {
 					t.Errorf("idf[%s] = %.17g, want %.17g", c.Terms[j], idf[j], want)
 				}
 			}
-			a := Weight(c, w)
-			checkCSR(t, a)
-			for i, row := range tc.Matrix {
-				for j, want := range row {
-					if got := a.At(i, j); math.Abs(got-want) > tolSklearn {
-						t.Errorf("a(%d,%s) = %.17g, want %.17g", i, c.Terms[j], got, want)
+			fresh, err := b.Build(Pruning{}) // WeightInPlace takes its counts
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, a := range []*sparse.CSR{Weight(c, w), WeightInPlace(fresh, w)} {
+				checkCSR(t, a)
+				for i, row := range tc.Matrix {
+					for j, want := range row {
+						if got := a.At(i, j); math.Abs(got-want) > tolSklearn {
+							t.Errorf("a(%d,%s) = %.17g, want %.17g", i, c.Terms[j], got, want)
+						}
 					}
 				}
 			}
@@ -202,5 +209,45 @@ func TestWeightSharesPatternKeepsCounts(t *testing.T) {
 	}
 	if again := Weight(c, DefaultWeighting).RawMatrix().Data; !slices.Equal(again, first) {
 		t.Errorf("second default weighting %v, want %v", again, first)
+	}
+}
+
+// WeightInPlace gives Weight's values bit for bit, in every weighting,
+// over the counts' own array, and takes the counts' matrix (common
+// practice, no outside source: the same arithmetic in the same order).
+func TestWeightInPlaceSameBits(t *testing.T) {
+	var b Builder
+	r := rand.New(rand.NewPCG(15, 16))
+	for range 5000 {
+		row := map[string]int{}
+		for range 1 + r.IntN(12) {
+			row[fmt.Sprintf("t%d", r.IntN(300))] = 1 + r.IntN(5)
+		}
+		b.AddRow(row)
+	}
+	b.AddRow(map[string]int{"t1": 1}) // a row of one term
+	for _, tf := range []TF{TFLog, TFRaw, TFBinary} {
+		for _, idf := range []IDF{IDFSmooth, IDFPlain, IDFNone} {
+			for _, norm := range []Norm{NormL2, NormL1, NormNone} {
+				w := Weighting{TF: tf, IDF: idf, Norm: norm}
+				c, err := b.Build(Pruning{})
+				if err != nil {
+					t.Fatal(err)
+				}
+				want := Weight(c, w).RawMatrix().Data
+				counts := c.Matrix.RawMatrix().Data
+				got := WeightInPlace(c, w)
+				if c.Matrix != nil {
+					t.Fatalf("%v: the counts still hold their matrix", w)
+				}
+				raw := got.RawMatrix()
+				if &raw.Data[0] != &counts[0] {
+					t.Fatalf("%v: weighted into a new array", w)
+				}
+				if !slices.Equal(raw.Data, want) {
+					t.Fatalf("%v: in place differs from Weight", w)
+				}
+			}
+		}
 	}
 }

@@ -255,14 +255,16 @@ func (n num) MarshalJSON() ([]byte, error) {
 	return []byte(fmt.Sprintf("%.6g", f)), nil
 }
 
-// pick runs the selection on an analysed corpus and builds the report.
+// pick runs the selection on an analysed corpus and builds the report. It
+// weights an's count matrix in place (an.counts.Matrix is nil afterwards),
+// so an can be picked from only once.
 func pick(an *analysis, opts pickOptions, version string) (*Report, error) {
 	// The numerical phase allocates few, large, pointer-free blocks, which
 	// the collector frees cheaply; collecting sooner keeps the peak down
 	// (bench/scale, 100,000×50,000: peak resident 476 MiB at the default
 	// GOGC of 100, 453 MiB at 20, with no measurable change in time).
 	defer debug.SetGCPercent(debug.SetGCPercent(numericGCPercent))
-	full := sparsemat.Weight(an.counts, opts.Weight)
+	full := sparsemat.WeightInPlace(an.counts, opts.Weight)
 	m, n := full.Dims()
 	rep := &Report{Schema: reportSchema, Tool: toolInfo{Name: "assay", Version: version}, Caution: cautionSampling, Warnings: []string{}}
 	if sparsemat.FrobeniusSq(full) == 0 {
