@@ -181,12 +181,13 @@ func BenchmarkAnalyzeCorpus(b *testing.B) {
 	}
 }
 
-// BenchmarkAnalyzeFolder runs AnalyzeIDs (English, stemming on) over the
-// first 40,000 files, in byte order of their paths, of the folder that
-// ASSAY_ANALYZE_DIR names, with a memo warmed by one pass over them: one
-// ingest worker's steady state on a real corpus, say bench/gen's or
-// SpamAssassin's (bench/README.md). It is skipped when the variable is
-// unset. MB/s is of the files' bytes.
+// BenchmarkAnalyzeFolder runs AnalyzeIDs (stemming on; the language fixed
+// to English, and detected per document) over the first 40,000 files, in
+// byte order of their paths, of the folder that ASSAY_ANALYZE_DIR names,
+// with a memo warmed by one pass over them: one ingest worker's steady
+// state on a real corpus, say bench/gen's or SpamAssassin's
+// (bench/README.md). It is skipped when the variable is unset. MB/s is of
+// the files' bytes.
 func BenchmarkAnalyzeFolder(b *testing.B) {
 	root := os.Getenv("ASSAY_ANALYZE_DIR")
 	if root == "" {
@@ -211,24 +212,28 @@ func BenchmarkAnalyzeFolder(b *testing.B) {
 		}
 		docs = append(docs, string(text))
 	}
-	vocab := map[string]int32{}
-	a := textproc.NewAnalyzer(textproc.Options{Lang: textproc.English, TermID: func(t string) int32 {
-		id, ok := vocab[t]
-		if !ok {
-			id = int32(len(vocab))
-			vocab[t] = id
-		}
-		return id
-	}})
-	var ids []int32
-	for _, d := range docs {
-		ids, _ = a.AnalyzeIDs(d, ids[:0])
-	}
-	b.SetBytes(corpusBytes(docs))
-	b.ReportAllocs()
-	for b.Loop() {
-		for _, d := range docs {
-			ids, _ = a.AnalyzeIDs(d, ids[:0])
-		}
+	for _, lang := range []textproc.Language{textproc.English, textproc.Auto} {
+		b.Run("lang="+string(lang), func(b *testing.B) {
+			vocab := map[string]int32{}
+			a := textproc.NewAnalyzer(textproc.Options{Lang: lang, TermID: func(t string) int32 {
+				id, ok := vocab[t]
+				if !ok {
+					id = int32(len(vocab))
+					vocab[t] = id
+				}
+				return id
+			}})
+			var ids []int32
+			for _, d := range docs {
+				ids, _ = a.AnalyzeIDs(d, ids[:0])
+			}
+			b.SetBytes(corpusBytes(docs))
+			b.ReportAllocs()
+			for b.Loop() {
+				for _, d := range docs {
+					ids, _ = a.AnalyzeIDs(d, ids[:0])
+				}
+			}
+		})
 	}
 }
