@@ -2,7 +2,6 @@ package textproc
 
 import (
 	"fmt"
-	"math/bits"
 	"slices"
 	"strings"
 	"unicode"
@@ -479,14 +478,18 @@ func (a *Analyzer) lookUp(text string) int {
 	var (
 		stops, marks   [numStemmed]int
 		nLatin, nCyril int
+		// The candidates' counts since the last flush, one byte each:
+		// adding a token's masks as bytes takes no loop and no branch.
+		stopLanes, markLanes uint64
+		inLanes              int
 	)
 	for k, sc := range a.sc {
 		if sc != scriptLatin && sc != scriptCyrillic {
 			continue
 		}
 		s := &a.words.slots[a.at[k]]
-		pieces, stopMask := int(s.pieces), s.stops
-		if s.pieces == manyPieces {
+		pieces := int(s.pieces)
+		if s.pieces == manyPieces { // s.stops is 0: the stops are in a.multi
 			tm := &a.toks[s.ti]
 			pieces = int(tm.pieces)
 			if tm.multi > 0 {
@@ -500,16 +503,37 @@ func (a *Analyzer) lookUp(text string) int {
 		} else {
 			nLatin += pieces
 		}
-		for m := s.marks; m != 0; m &= m - 1 {
-			marks[bits.TrailingZeros8(m)]++
-		}
-		for m := stopMask; m != 0; m &= m - 1 {
-			stops[bits.TrailingZeros8(m)]++
+		markLanes += byteLanes[s.marks]
+		stopLanes += byteLanes[s.stops]
+		if inLanes++; inLanes == 255 { // a byte holds up to 255
+			addLanes(&marks, markLanes)
+			addLanes(&stops, stopLanes)
+			markLanes, stopLanes, inLanes = 0, 0, 0
 		}
 	}
+	addLanes(&marks, markLanes)
+	addLanes(&stops, stopLanes)
 	a.last = decide(&stops, &marks, nLatin, nCyril)
 	doc, _ := langIndex(a.last.Lang)
 	return doc
+}
+
+// byteLanes[m] has a 1 in byte i for each bit i of m: a mask of
+// candidates (bits below numStemmed) as counts of one, a byte each.
+var byteLanes = func() (t [256]uint64) {
+	for m := range t {
+		for i := range 8 {
+			t[m] |= uint64(m>>i&1) << (8 * i)
+		}
+	}
+	return t
+}()
+
+// addLanes adds the counts held a byte each in lanes to counts.
+func addLanes(counts *[numStemmed]int, lanes uint64) {
+	for i := range counts {
+		counts[i] += int(uint8(lanes >> (8 * i)))
+	}
 }
 
 // probe fills a.at and a.sc for the tokens of the current document: the
