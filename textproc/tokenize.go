@@ -6,6 +6,7 @@ import (
 	"slices"
 	"unicode"
 	"unicode/utf8"
+	"unsafe"
 )
 
 // isWordStart reports a letter or digit, which can start or continue a
@@ -230,6 +231,35 @@ func highBits(x uint64) uint64 {
 	return ((x >> 7) * 0x0102040810204080) >> 56
 }
 
+// classifyASCIIGo is classifyASCII in Go, eight bytes at a time.
+func classifyASCIIGo(dst, src *byte, lower bool) (word, alpha uint64, ok bool) {
+	in := unsafe.String(src, 64)
+	// First a quick look for the bytes that stop a block, so that text
+	// with many of them loses little on blocks tried in vain.
+	stop := uint64(0)
+	for k := 0; k < 64; k += 8 {
+		x := load64(in[k:])
+		stop |= x&swarHigh | ^swarAtLeast(x&^swarHigh^(swarOnes*'\''), 1)&swarHigh
+	}
+	if stop != 0 {
+		return 0, 0, false
+	}
+	out := unsafe.Slice(dst, 64)
+	for k := 0; k < 64; k += 8 {
+		x := load64(in[k:]) // ASCII: the high bits are clear
+		upper := swarAtLeast(x, 'A') &^ swarAtLeast(x, 'Z'+1)
+		a := (upper | swarAtLeast(x, 'a')&^swarAtLeast(x, 'z'+1)) & swarHigh
+		w := a | (swarAtLeast(x, '0')&^swarAtLeast(x, '9'+1))&swarHigh
+		if lower {
+			x |= (upper & swarHigh) >> 2 // 0x20 on each capital
+		}
+		binary.LittleEndian.PutUint64(out[k:], x)
+		word |= highBits(w) << k
+		alpha |= highBits(a) << k
+	}
+	return word, alpha, true
+}
+
 // asciiBlock tokenises the 64 bytes b as asciiWords does and reports
 // true, or reports false and leaves everything as it was when b holds an
 // apostrophe or a byte outside ASCII. It works on bit masks of the whole
@@ -237,30 +267,11 @@ func highBits(x uint64) uint64 {
 // lengths of words are irregular, and a branch on each boundary would be
 // mispredicted about once a word).
 func (t *tokenizer) asciiBlock(b string) bool {
-	// First a quick look for the bytes that stop a block, so that text
-	// with many of them loses little on blocks tried in vain.
-	stop := uint64(0)
-	for k := 0; k < 64; k += 8 {
-		x := load64(b[k:])
-		stop |= x&swarHigh | ^swarAtLeast(x&^swarHigh^(swarOnes*'\''), 1)&swarHigh
-	}
-	if stop != 0 {
-		return false
-	}
 	l := len(t.arena)
 	arena := slices.Grow(t.arena, 64)[:l+64]
-	var word, alpha uint64
-	for k := 0; k < 64; k += 8 {
-		x := load64(b[k:]) // ASCII: the high bits are clear
-		upper := swarAtLeast(x, 'A') &^ swarAtLeast(x, 'Z'+1)
-		a := (upper | swarAtLeast(x, 'a')&^swarAtLeast(x, 'z'+1)) & swarHigh
-		w := a | (swarAtLeast(x, '0')&^swarAtLeast(x, '9'+1))&swarHigh
-		if t.lower {
-			x |= (upper & swarHigh) >> 2 // 0x20 on each capital
-		}
-		binary.LittleEndian.PutUint64(arena[l+k:], x)
-		word |= highBits(w) << k
-		alpha |= highBits(a) << k
+	word, alpha, ok := classifyASCII(&arena[l], unsafe.StringData(b[:64]), t.lower)
+	if !ok {
+		return false // arena's room is kept for later blocks, unused
 	}
 	// Bit p of starts: a word starts at byte p; of ends: a word ends
 	// before byte p. A word being built goes on from the block before.
