@@ -144,15 +144,7 @@ func TestWeightingValidate(t *testing.T) {
 // bits must be the same (the determinism rule of the package), and each
 // row must be the serial formula's (tf·idf, then the L2 norm).
 func TestWeightBlocksSameBits(t *testing.T) {
-	var b Builder
-	r := rand.New(rand.NewPCG(13, 14))
-	for range 10000 {
-		row := map[string]int{}
-		for range 1 + r.IntN(12) {
-			row[fmt.Sprintf("t%d", r.IntN(400))] = 1 + r.IntN(5)
-		}
-		b.AddRow(row)
-	}
+	b := randomCountsBuilder(rand.New(rand.NewPCG(13, 14)), 10000, 400)
 	c, err := b.Build(Pruning{})
 	if err != nil {
 		t.Fatal(err)
@@ -216,15 +208,7 @@ func TestWeightSharesPatternKeepsCounts(t *testing.T) {
 // over the counts' own array, and takes the counts' matrix (common
 // practice, no outside source: the same arithmetic in the same order).
 func TestWeightInPlaceSameBits(t *testing.T) {
-	var b Builder
-	r := rand.New(rand.NewPCG(15, 16))
-	for range 5000 {
-		row := map[string]int{}
-		for range 1 + r.IntN(12) {
-			row[fmt.Sprintf("t%d", r.IntN(300))] = 1 + r.IntN(5)
-		}
-		b.AddRow(row)
-	}
+	b := randomCountsBuilder(rand.New(rand.NewPCG(15, 16)), 5000, 300)
 	b.AddRow(map[string]int{"t1": 1}) // a row of one term
 	for _, tf := range []TF{TFLog, TFRaw, TFBinary} {
 		for _, idf := range []IDF{IDFSmooth, IDFPlain, IDFNone} {
@@ -250,4 +234,18 @@ func TestWeightInPlaceSameBits(t *testing.T) {
 			}
 		}
 	}
+}
+
+// randomCountsBuilder returns a builder of rows documents, each of one to
+// twelve of terms distinct terms with counts of one to five.
+func randomCountsBuilder(r *rand.Rand, rows, terms int) *Builder {
+	b := &Builder{}
+	for range rows {
+		row := map[string]int{}
+		for range 1 + r.IntN(12) {
+			row[fmt.Sprintf("t%d", r.IntN(terms))] = 1 + r.IntN(5)
+		}
+		b.AddRow(row)
+	}
+	return b
 }

@@ -3,30 +3,16 @@
 // Byte constants, sixteen copies each. The range tests are signed byte
 // compares (PCMPGTB), right for ASCII; a byte with its high bit set stops
 // the block before its classes matter.
-DATA c40<>+0(SB)/8, $0x4040404040404040 // 'A' - 1
-DATA c40<>+8(SB)/8, $0x4040404040404040
-GLOBL c40<>(SB), RODATA|NOPTR, $16
-DATA c5b<>+0(SB)/8, $0x5b5b5b5b5b5b5b5b // 'Z' + 1
-DATA c5b<>+8(SB)/8, $0x5b5b5b5b5b5b5b5b
-GLOBL c5b<>(SB), RODATA|NOPTR, $16
-DATA c60<>+0(SB)/8, $0x6060606060606060 // 'a' - 1
-DATA c60<>+8(SB)/8, $0x6060606060606060
-GLOBL c60<>(SB), RODATA|NOPTR, $16
-DATA c7b<>+0(SB)/8, $0x7b7b7b7b7b7b7b7b // 'z' + 1
-DATA c7b<>+8(SB)/8, $0x7b7b7b7b7b7b7b7b
-GLOBL c7b<>(SB), RODATA|NOPTR, $16
-DATA c2f<>+0(SB)/8, $0x2f2f2f2f2f2f2f2f // '0' - 1
-DATA c2f<>+8(SB)/8, $0x2f2f2f2f2f2f2f2f
-GLOBL c2f<>(SB), RODATA|NOPTR, $16
-DATA c3a<>+0(SB)/8, $0x3a3a3a3a3a3a3a3a // '9' + 1
-DATA c3a<>+8(SB)/8, $0x3a3a3a3a3a3a3a3a
-GLOBL c3a<>(SB), RODATA|NOPTR, $16
-DATA c27<>+0(SB)/8, $0x2727272727272727 // the apostrophe
-DATA c27<>+8(SB)/8, $0x2727272727272727
-GLOBL c27<>(SB), RODATA|NOPTR, $16
-DATA c20<>+0(SB)/8, $0x2020202020202020 // the case bit
-DATA c20<>+8(SB)/8, $0x2020202020202020
-GLOBL c20<>(SB), RODATA|NOPTR, $16
+#define SPLAT(name, v) DATA name<>+0(SB)/8, $v; DATA name<>+8(SB)/8, $v; GLOBL name<>(SB), RODATA|NOPTR, $16
+
+SPLAT(c40, 0x4040404040404040) // 'A' - 1
+SPLAT(c5b, 0x5b5b5b5b5b5b5b5b) // 'Z' + 1
+SPLAT(c60, 0x6060606060606060) // 'a' - 1
+SPLAT(c7b, 0x7b7b7b7b7b7b7b7b) // 'z' + 1
+SPLAT(c2f, 0x2f2f2f2f2f2f2f2f) // '0' - 1
+SPLAT(c3a, 0x3a3a3a3a3a3a3a3a) // '9' + 1
+SPLAT(c27, 0x2727272727272727) // the apostrophe
+SPLAT(c20, 0x2020202020202020) // the case bit
 
 // CHUNK classifies the sixteen bytes at off(SI) into off(DI) and ORs
 // their bits, shifted by off, into R8 (stops), R9 (alpha) and R10 (word).
