@@ -271,7 +271,8 @@ func (t *tokenizer) asciiBlock(b string) bool {
 	arena := slices.Grow(t.arena, 64)[:l+64]
 	word, alpha, ok := classifyASCII(&arena[l], unsafe.StringData(b[:64]), t.lower)
 	if !ok {
-		return false // arena's room is kept for later blocks, unused
+		t.arena = arena[:l] // the same bytes; the room made is kept for what follows
+		return false
 	}
 	// Bit p of starts: a word starts at byte p; of ends: a word ends
 	// before byte p. A word being built goes on from the block before.
